@@ -1,0 +1,33 @@
+"""cellchem: ionic chemistry for chemical stores.
+
+The public core: read formulas, molar masses and compositions from standard
+atomic weights, the ion catalog and salts by charge balance, oxidation states.
+Pure functions over plain values; no spreadsheet library is imported here.
+"""
+
+from .charge import ChargeBalance, charge_balance, net_charge, oxidation_state
+from .elements import Element, element
+from .errors import CellchemError
+from .formula import Formula, parse_formula
+from .ions import Ion, find_ion, salt_formula
+from .mass import composition, mass_fraction, molar_mass
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "CellchemError",
+    "ChargeBalance",
+    "Element",
+    "Formula",
+    "Ion",
+    "charge_balance",
+    "composition",
+    "element",
+    "find_ion",
+    "mass_fraction",
+    "molar_mass",
+    "net_charge",
+    "oxidation_state",
+    "parse_formula",
+    "salt_formula",
+]

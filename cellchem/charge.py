@@ -1,0 +1,735 @@
+"""Charge balance, oxidation states and net charge.
+
+A formula is read as the ions that make it up: the top-level items of each
+part (atoms and bracketed groups, as written) are split into consecutive runs,
+and each run must be a whole number of one catalog ion (so ``NH4NO3`` is
+NH4+ and NO3-, ``CH3COONa`` is acetate and Na+, ``Fe3O4`` is Fe2+, 2 Fe3+ and
+4 O2-). Among the readings whose charges sum to the formula's charge, the one
+chosen uses (in this order of preference) the fewest homonuclear ions (Hg2 2+,
+O2 2-, N3-: MnO2 is Mn4+ with oxide, not Mn2+ with peroxide), no mixed valence,
+and the fewest ions (NaHCO3 is Na+ and HCO3-, not Na+, H+ and CO3 2-).
+
+Formulas with no metal and no catalog ion reading (CO2, PCl5, C6H12O6) are
+molecular: their oxidation states follow the usual rules (F -1; metals of one
+common charge; H +1 with non-metals, -1 with metals; O -2; the most
+electronegative remaining element takes its lowest common state; the last
+element takes what balances the charge).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from functools import lru_cache
+
+from .elements import element
+from .errors import ChemistryError, CellchemError
+from .formula import Atom, Formula, Group, Item, Number, Part, as_formula, render_items
+from .ions import Ion, ions_in
+
+ELEMENT = "element"
+IONIC = "ionic"
+MOLECULAR = "molecular"
+UNBALANCED = "unbalanced"
+
+_NUMBER_WORDS = "zero one two three four five six seven eight nine ten eleven twelve".split()
+
+
+def _word(n: Number) -> str:
+    if isinstance(n, int) and 0 <= n < len(_NUMBER_WORDS):
+        return _NUMBER_WORDS[n]
+    return str(n)
+
+
+@dataclass(frozen=True)
+class Share:
+    """One species of a charge assignment.
+
+    Attributes:
+        label: how it is written (``'Fe3+'``, ``'SO4 2-'``, ``'H2O'``).
+        charge: charge of one of them.
+        count: how many per formula unit.
+        ion: the catalog ion, or None for water and neutral parts.
+    """
+
+    label: str
+    charge: int
+    count: Number
+    ion: Ion | None = None
+
+
+@dataclass(frozen=True)
+class ChargeBalance:
+    """The result of ``charge_balance``.
+
+    Attributes:
+        balanced: True when some assignment of catalog charges (or, for a
+            molecular compound, of oxidation states) sums to the formula's charge.
+        kind: ``'ionic'``, ``'molecular'``, ``'element'`` or ``'unbalanced'``.
+        charges: the assignment, as Shares in formula order (empty if none).
+        explanation: one line saying what was found, or why not.
+    """
+
+    balanced: bool
+    kind: str
+    charges: tuple[Share, ...]
+    explanation: str
+
+    def __bool__(self) -> bool:
+        return self.balanced
+
+
+# ---------------------------------------------------------------------------
+# Reading a part as ions
+# ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _Option:
+    start: int
+    end: int
+    charge: int
+    score: tuple[int, int, int]  # homonuclear ions, mixed valence, number of ions
+    shares: tuple[Share, ...]
+    inner: tuple[_Option, ...] = ()  # for a bracketed group read from its contents
+
+
+def _counts(items: tuple[Item, ...]) -> dict[str, Number]:
+    total: dict[str, Number] = {}
+    for item in items:
+        for s, n in item.counts().items():
+            total[s] = total.get(s, 0) + n
+    return total
+
+
+def _add(a: tuple[int, int, int], b: tuple[int, int, int]) -> tuple[int, int, int]:
+    return (a[0] + b[0], a[1] + b[1], a[2] + b[2])
+
+
+def _compositions(n: int, k: int):
+    """All ways to write n as k non-negative parts."""
+    if k == 1:
+        yield (n,)
+        return
+    for first in range(n + 1):
+        for rest in _compositions(n - first, k - 1):
+            yield (first,) + rest
+
+
+def _run_options(items: tuple[Item, ...], start: int, end: int, inside: bool, mixed: bool) -> list[_Option]:
+    run = items[start:end]
+    counts = _counts(run)
+    options: list[_Option] = []
+    for ion, k in ions_in(counts):
+        options.append(
+            _Option(start, end, ion.charge * k, (1 if ion.is_homonuclear else 0, 0, k), (Share(ion.label, ion.charge, k, ion),))
+        )
+    if mixed and len(counts) == 1:
+        (symbol, n), = counts.items()
+        mono = [ion for ion, k in ions_in({symbol: 1})]
+        if isinstance(n, int) and n >= 2 and len(mono) >= 2 and n <= 24:
+            for combo in _compositions(n, len(mono)):
+                if sum(1 for c in combo if c) < 2:
+                    continue
+                shares = tuple(Share(ion.label, ion.charge, c, ion) for ion, c in zip(mono, combo) if c)
+                total = sum(ion.charge * c for ion, c in zip(mono, combo))
+                options.append(_Option(start, end, total, (0, 1, n), shares))
+    if len(run) == 1 and isinstance(run[0], Group) and not options:
+        group = run[0]
+        for charge, best in _solutions(group.items, True, mixed).items():
+            score, path = best
+            label = render_items((Group(group.items, 1, group.bracket),))
+            shares = (Share(_label(label, charge), charge, group.count, None),)
+            scaled = (score[0] * group.count, score[1] * group.count, group.count)
+            options.append(_Option(start, end, charge * group.count, scaled, shares, path))
+        if inside and not options:
+            states = rule_states(counts, 0)
+            if states is not None:
+                label = render_items(group.items)
+                options.append(_Option(start, end, 0, (0, 0, 0), (Share(label, 0, group.count, None),)))
+    return options
+
+
+def _label(text: str, charge: int) -> str:
+    if not charge:
+        return text
+    magnitude = "" if abs(charge) == 1 else str(abs(charge))
+    return text + magnitude + ("+" if charge > 0 else "-")
+
+
+Solution = tuple[tuple[int, int, int], tuple[_Option, ...]]
+
+
+@lru_cache(maxsize=16384)
+def _solutions(items: tuple[Item, ...], inside: bool, mixed: bool, whole: bool = True) -> dict[int, Solution]:
+    """For every reachable total charge, the best reading of ``items``.
+
+    ``whole=False`` leaves out the readings of all the items as one ion, to
+    look inside a catalog complex ion at its metal and ligands."""
+    n = len(items)
+    dp: list[dict[int, Solution]] = [{} for _ in range(n + 1)]
+    dp[0][0] = ((0, 0, 0), ())
+    for i in range(n):
+        if not dp[i]:
+            continue
+        for j in range(i + 1, n + 1):
+            if not whole and i == 0 and j == n:
+                continue
+            options = _run_options(items, i, j, inside, mixed)
+            for charge, (score, path) in dp[i].items():
+                for opt in options:
+                    c = charge + opt.charge
+                    s = _add(score, opt.score)
+                    current = dp[j].get(c)
+                    if current is None or s < current[0]:
+                        dp[j][c] = (s, path + (opt,))
+    return dp[n]
+
+
+def _reach(items: tuple[Item, ...]) -> int:
+    """How many leading items some reading covers (for messages)."""
+    n = len(items)
+    reach = [False] * (n + 1)
+    reach[0] = True
+    best = 0
+    for i in range(n):
+        if not reach[i]:
+            continue
+        for j in range(i + 1, n + 1):
+            if _run_options(items, i, j, False, False):
+                reach[j] = True
+                best = max(best, j)
+    return best
+
+
+def _solve(items: tuple[Item, ...], target: int) -> Solution | None:
+    found = _solutions(items, False, False).get(target)
+    if found is None:
+        found = _solutions(items, False, True).get(target)
+    return found
+
+
+# Anions that do not stand with H+ alone in a formula with no metal: NH3 is not
+# N3- with 3 H+, nor H2O2 peroxide with 2 H+ (common practice).
+_NOT_ACID_ANIONS = frozenset("O N C P Si B Ge As Sb H".split())
+
+
+def _acceptable_without_metal(path: tuple[_Option, ...]) -> bool:
+    for opt in path:
+        for share in opt.shares:
+            ion = share.ion
+            if ion is None:
+                continue
+            symbols = tuple(ion.formula.counts)
+            if ion.charge < 0 and len(symbols) == 1 and (symbols[0] in _NOT_ACID_ANIONS or ion.is_homonuclear and symbols[0] == "O"):
+                return False
+            if ion.charge > 0 and ion.is_monatomic and symbols[0] != "H":
+                return False
+    return True
+
+
+def _has_metal(counts: dict[str, Number]) -> bool:
+    return any(element(s).is_metal for s in counts)
+
+
+# ---------------------------------------------------------------------------
+# Oxidation states by rule
+# ---------------------------------------------------------------------------
+
+
+def _single_charge(symbol: str) -> int | None:
+    charges = {ion.charge for ion, k in ions_in({symbol: 1}) if ion.charge > 0}
+    return charges.pop() if len(charges) == 1 else None
+
+
+def _state_range(symbol: str) -> tuple[int, int]:
+    el = element(symbol)
+    if symbol == "H":
+        return (-1, 1)
+    if symbol == "O":
+        return (-2, 2)
+    if symbol == "F":
+        return (-1, 0)
+    if el.is_metal:
+        return (0, 8)
+    g = el.group or 0
+    if g >= 13:
+        return (g - 18, g - 10)
+    return (-4, 8)
+
+
+def rule_states(counts: dict[str, Number], charge: int) -> dict[str, Fraction] | None:
+    """Oxidation states of a species by the usual rules, or None when the rules
+    give a value outside an element's range (see module doc). A state may be
+    a fraction: the mean over the atoms of that element."""
+    unknown = [s for s in counts]
+    states: dict[str, Fraction] = {}
+    if len(unknown) == 1:
+        (s,) = unknown
+        value = Fraction(charge) / counts[s]
+        lo, hi = _state_range(s)
+        return {s: value} if lo <= value <= hi else None
+
+    def fix(symbol: str, value: int) -> None:
+        if symbol in unknown and len(unknown) > 1:
+            states[symbol] = Fraction(value)
+            unknown.remove(symbol)
+
+    fix("F", -1)
+    for s in list(unknown):
+        if element(s).is_metal:
+            single = _single_charge(s)
+            if single is not None:
+                fix(s, single)
+    other_nonmetal = any(not element(s).is_metal and s != "H" for s in counts)
+    fix("H", 1 if other_nonmetal else -1)
+    fix("O", -2)
+    while len(unknown) > 1:
+        candidates = [s for s in unknown if not element(s).is_metal]
+        if not candidates:
+            return None
+        s = max(candidates, key=lambda x: element(x).electronegativity or 0.0)
+        lo, _ = _state_range(s)
+        fix(s, lo)
+    last = unknown[0]
+    value = (Fraction(charge) - sum(states[s] * counts[s] for s in states)) / counts[last]
+    lo, hi = _state_range(last)
+    if not lo <= value <= hi:
+        return None
+    states[last] = value
+    return {s: states[s] for s in counts}
+
+
+# ---------------------------------------------------------------------------
+# The analysis
+# ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _PartReading:
+    kind: str
+    shares: tuple[Share, ...]
+    path: tuple[_Option, ...] = ()
+    states: dict[str, Fraction] | None = None
+    why: str = ""
+
+
+def _scale(shares: tuple[Share, ...], factor: Number) -> tuple[Share, ...]:
+    if factor == 1:
+        return shares
+    return tuple(Share(s.label, s.charge, _norm(s.count * factor), s.ion) for s in shares)
+
+
+def _norm(x: Number) -> Number:
+    if isinstance(x, Fraction) and x.denominator == 1:
+        return int(x)
+    return x
+
+
+def _flatten(path: tuple[_Option, ...]) -> tuple[Share, ...]:
+    merged: dict[tuple[str, int], Share] = {}
+    for opt in path:
+        for share in opt.shares:
+            key = (share.label, share.charge)
+            if key in merged:
+                old = merged[key]
+                merged[key] = Share(old.label, old.charge, old.count + share.count, old.ion)
+            else:
+                merged[key] = share
+    return tuple(merged.values())
+
+
+@lru_cache(maxsize=16384)
+def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
+    if part.is_water and adduct:
+        return _PartReading(IONIC, (Share("H2O", 0, 1, None),))
+    counts = _counts(part.items)
+    solution = _solve(part.items, target)
+    metal = _has_metal(counts)
+    if target and solution is None:
+        same = [ion for ion, k in ions_in(counts) if k == 1 and ion.charge != target]
+        if same:
+            named = " or ".join(f"{ion.name} {ion.label}" for ion in same)
+            return _PartReading(
+                UNBALANCED, (), (), None, f"{render_items(part.items)} is {named}, not of charge {target:+d}"
+            )
+    if solution is not None and (metal or _acceptable_without_metal(solution[1])):
+        return _PartReading(IONIC, _flatten(solution[1]), solution[1])
+    if not metal or adduct:
+        states = rule_states(counts, target)
+        if states is not None:
+            return _PartReading(MOLECULAR, (), (), states)
+    return _PartReading(UNBALANCED, (), (), None, _why_not(part, target))
+
+
+def _fmt_state(value: Fraction) -> str:
+    if value.denominator == 1:
+        return f"{int(value):+d}" if value else "0"
+    return f"{'+' if value > 0 else '-'}{abs(value.numerator)}/{value.denominator}"
+
+
+def _why_not(part: Part, target: int) -> str:
+    items = part.items
+    text = render_items(items)
+    reach = _reach(items)
+    if reach < len(items):
+        rest = render_items(items[reach:])
+        before = render_items(items[:reach])
+        after = f" after '{before}'" if before else ""
+        return f"no ion in the catalog matches '{rest}'{after}, so {text} cannot be split into ions"
+    # closest reading: smallest |charge - target|
+    sols = {**_solutions(items, False, False)}
+    charge = min(sols, key=lambda c: (abs(c - target), sols[c][0]))
+    shares = _flatten(sols[charge][1])
+    phrases = []
+    for share in shares:
+        ion = share.ion
+        if ion is None:
+            continue
+        if share.charge > 0 and ion.is_monatomic:
+            symbol = next(iter(ion.formula.counts))
+            choices = [i for i, _ in ions_in({symbol: 1}) if i.charge > 0]
+            el = element(symbol)
+            if len(choices) == 1:
+                phrases.append(f"{el.name} forms only {choices[0].label}")
+            else:
+                phrases.append(f"{el.name} forms " + " or ".join(i.label for i in choices))
+        else:
+            total = share.charge * share.count
+            sign = "+" if total > 0 else "-"
+            noun = ion.name + (" ion" if share.count == 1 else " ions")
+            verb = "carries" if share.count == 1 else "carry"
+            phrases.append(f"{_word(share.count)} {noun} {verb} {abs(total)}{sign}")
+    want = "neutral" if target == 0 else f"of charge {target:+d}"
+    if not phrases:
+        return f"no assignment of catalog charges makes {text} {want}"
+    return "; ".join(phrases)
+
+
+def _share_phrase(share: Share) -> str:
+    return share.label if share.count == 1 else f"{share.count} {share.label}"
+
+
+def _explain_ionic(text: str, shares: tuple[Share, ...]) -> str:
+    body = " + ".join(_share_phrase(s) for s in shares if s.charge or s.ion)
+    notes = []
+    by_element: dict[str, set[int]] = {}
+    for s in shares:
+        ion = s.ion
+        if ion is None:
+            continue
+        if ion.is_homonuclear:
+            notes.append(f"it holds the {ion.name} ion {ion.label}")
+        if ion.is_monatomic and ion.charge > 0:
+            symbol = next(iter(ion.formula.counts))
+            if len([i for i, _ in ions_in({symbol: 1}) if i.charge > 0]) > 1:
+                by_element.setdefault(symbol, set()).add(ion.charge)
+    for symbol, charges in by_element.items():
+        name = element(symbol).name
+        if len(charges) == 1:
+            notes.append(f"{name} is {_fmt_state(Fraction(next(iter(charges))))}")
+        else:
+            notes.append(
+                f"mixed valence: {name} is " + " and ".join(_fmt_state(Fraction(c)) for c in sorted(charges))
+            )
+    return f"{text}: {body}" + (f" ({'; '.join(notes)})" if notes else "")
+
+
+def _merge(shares: list[Share]) -> tuple[Share, ...]:
+    merged: dict[tuple[str, int], Share] = {}
+    for share in shares:
+        key = (share.label, share.charge)
+        old = merged.get(key)
+        if old is None:
+            merged[key] = share
+        elif isinstance(old.count, str) or isinstance(share.count, str):
+            merged[key] = Share(old.label, old.charge, "x", old.ion)  # type: ignore[arg-type]
+        else:
+            merged[key] = Share(old.label, old.charge, _norm(old.count + share.count), old.ion)
+    return tuple(merged.values())
+
+
+@lru_cache(maxsize=16384)
+def _analyse(formula: Formula) -> ChargeBalance:
+    text = formula.text()
+    counts = formula.counts
+    if len(counts) == 1 and len(formula.parts) == 1 and not formula.charge:
+        symbol = next(iter(counts))
+        return ChargeBalance(
+            True, ELEMENT, (Share(text, 0, 1, None),), f"{text} is an element (oxidation state 0)"
+        )
+    shares: list[Share] = []
+    molecular: list[str] = []
+    for i, part in enumerate(formula.parts):
+        target = formula.charge if i == 0 else 0
+        reading = _read_part(part, target, i > 0)
+        if reading.kind == UNBALANCED:
+            where = f"the part '{render_items(part.items)}' of {text}" if len(formula.parts) > 1 else text
+            return ChargeBalance(False, UNBALANCED, (), f"{where} is not balanced: {reading.why}")
+        if part.multiplier is None:
+            factor: Number = 1
+        else:
+            factor = part.multiplier
+        if reading.kind == MOLECULAR:
+            assert reading.states is not None
+            states = ", ".join(f"{s} {_fmt_state(v)}" for s, v in reading.states.items())
+            molecular.append(states if len(formula.parts) == 1 else f"{render_items(part.items)} ({states})")
+            shares.append(Share(render_items(part.items), 0 if i else formula.charge, factor if part.multiplier is not None else "x", None))  # type: ignore[arg-type]
+        else:
+            scaled = _scale(reading.shares, factor) if part.multiplier is not None else tuple(
+                Share(s.label, s.charge, "x", s.ion) for s in reading.shares  # type: ignore[arg-type]
+            )
+            shares.extend(scaled)
+    merged = _merge(shares)
+    ionic_shares = tuple(s for s in merged if s.ion is not None)
+    if molecular and not ionic_shares:
+        return ChargeBalance(
+            True,
+            MOLECULAR,
+            merged,
+            f"{text} is molecular (no ions of the catalog): oxidation states"
+            f" {'; '.join(molecular)} sum to {formula.charge}",
+        )
+    explanation = _explain_ionic(text, tuple(s for s in merged if s.count != "x"))
+    if molecular:
+        explanation += "; with the molecular part " + "; ".join(molecular)
+    return ChargeBalance(True, IONIC, merged, explanation)
+
+
+def charge_balance(formula: str | Formula) -> ChargeBalance:
+    """Is the formula neutral (or of its written charge) for some assignment
+    of catalog charges?
+
+    Args:
+        formula: text or a parsed Formula.
+
+    Returns:
+        A ChargeBalance with ``balanced``, ``kind``, ``charges`` and ``explanation``.
+
+    Raises:
+        CellchemError: the formula cannot be read.
+
+    >>> charge_balance("FeCl3").explanation
+    'FeCl3: Fe3+ + 3 Cl- (iron is +3)'
+    >>> charge_balance("NaCl2").explanation
+    'NaCl2 is not balanced: sodium forms only Na+; two chloride ions carry 2-'
+    """
+    return _analyse(as_formula(formula))
+
+
+def net_charge(formula: str | Formula) -> int:
+    """The net charge of an ion or compound.
+
+    The charge written in the formula when there is one (and it must be one
+    the formula can carry); else 0 for a formula that balances as neutral;
+    else the charge of the one catalog ion the formula is.
+
+    Raises:
+        CellchemError: no charge is written and the formula is neither neutral
+            nor a single catalog ion, or several ions share its formula.
+
+    >>> net_charge("SO4 2-")
+    -2
+    >>> net_charge("NH4")
+    1
+    """
+    f = as_formula(formula)
+    text = f.source or f.text()
+    if f.charge:
+        result = charge_balance(f)
+        if not result.balanced:
+            raise ChemistryError(
+                f"'{text}' is written with charge {f.charge:+d}, which it cannot carry: "
+                + result.explanation,
+                text=text,
+            )
+        return f.charge
+    if len(f.counts) == 1 and len(f.parts) == 1:
+        return 0  # an element, even when it shares its formula with an ion (O2, Hg2)
+    if len(f.parts) == 1 and not f.has_unknown_count:
+        whole = [ion for ion, k in ions_in(f.counts) if k == 1]
+        if len(whole) == 1:
+            return whole[0].charge
+        if len(whole) > 1:
+            listing = ", ".join(f"{ion.label} ({ion.name})" for ion in whole)
+            raise ChemistryError(
+                f"'{text}' has no charge written and is more than one ion: {listing}; write the charge",
+                text=text,
+                choices=tuple(ion.label for ion in whole),
+            )
+    result = charge_balance(f)
+    if result.balanced:
+        return 0
+    raise ChemistryError(
+        f"'{text}' has no charge written and is not neutral: {result.explanation}", text=text
+    )
+
+
+def _species_states(share: Share, path: tuple[_Option, ...]) -> list[tuple[str, Fraction, Number]]:
+    """(symbol, state, atoms) for one share of an ionic reading."""
+    ion = share.ion
+    out: list[tuple[str, Fraction, Number]] = []
+    if ion is None:
+        return out
+    counts = ion.formula.counts
+    if ion.is_monatomic or ion.is_homonuclear:
+        symbol = next(iter(counts))
+        return [(symbol, Fraction(ion.charge, counts[symbol]), counts[symbol] * share.count)]
+    if ion.is_complex:
+        group = ion.formula.parts[0].items[0]
+        assert isinstance(group, Group)
+        sol = _solutions(group.items, True, False, False).get(ion.charge) or _solutions(
+            group.items, True, True, False
+        ).get(ion.charge)
+        if sol is not None:
+            for sub in sol[1]:
+                out.extend(_option_states(sub, share.count))
+            return out
+    states = rule_states(counts, ion.charge)
+    if states is None:
+        raise ChemistryError(f"the oxidation states in {ion.label} ({ion.name}) cannot be assigned by rule")
+    return [(s, v, counts[s] * share.count) for s, v in states.items()]
+
+
+def _option_states(opt: _Option, factor: Number) -> list[tuple[str, Fraction, Number]]:
+    out: list[tuple[str, Fraction, Number]] = []
+    if opt.inner:
+        for share in opt.shares:
+            for sub in opt.inner:
+                out.extend(_option_states(sub, factor * share.count))
+        return out
+    for share in opt.shares:
+        if share.ion is None:
+            # a neutral ligand read by rule
+            continue
+        out.extend(_species_states(Share(share.label, share.charge, share.count * factor, share.ion), ()))
+    for share in opt.shares:
+        if share.ion is None and share.charge == 0:
+            run_counts = {}
+            # neutral ligand: states by rule
+            from .formula import parse_formula
+
+            lig = parse_formula(share.label)
+            states = rule_states(lig.counts, 0) or {}
+            for s, v in states.items():
+                run_counts[s] = v
+                out.append((s, v, lig.counts[s] * share.count * factor))
+    return out
+
+
+def oxidation_state(formula: str | Formula, symbol: str, mean: bool = False) -> int | Fraction:
+    """The oxidation state of an element in a formula.
+
+    Args:
+        formula: text or a parsed Formula (``'KMnO4'``, ``'[Fe(CN)6]4-'``).
+        symbol: the element symbol, e.g. ``'Mn'``.
+        mean: when the element's atoms differ (Fe3O4) or the rules give a
+            fraction (S4O6 2-), return the mean as a Fraction instead of
+            refusing.
+
+    Returns:
+        An int, or with ``mean=True`` possibly a Fraction.
+
+    Raises:
+        CellchemError: the element is not in the formula, the formula does
+            not balance, or the atoms differ and ``mean`` is False.
+
+    >>> oxidation_state("KMnO4", "Mn")
+    7
+    >>> oxidation_state("Fe3O4", "Fe", mean=True)
+    Fraction(8, 3)
+    """
+    f = as_formula(formula)
+    el = element(symbol)
+    text = f.source or f.text()
+    if el.symbol not in f.counts:
+        raise ChemistryError(f"{el.symbol} is not in '{text}'", text=text)
+    result = charge_balance(f)
+    if not result.balanced:
+        raise ChemistryError(
+            f"no oxidation state of {el.symbol} in '{text}': {result.explanation}", text=text
+        )
+    pieces: list[tuple[Fraction, Number]] = []
+    if result.kind == ELEMENT:
+        return 0
+    for i, part in enumerate(f.parts):
+        reading = _read_part(part, f.charge if i == 0 else 0, i > 0)
+        factor = part.multiplier if part.multiplier is not None else 1
+        if reading.kind == MOLECULAR:
+            assert reading.states is not None
+            if el.symbol in reading.states:
+                n = _counts(part.items)[el.symbol] * factor
+                pieces.append((reading.states[el.symbol], n))
+            continue
+        for opt in reading.path:
+            for s, v, n in _option_states(opt, factor):
+                if s == el.symbol:
+                    pieces.append((v, n))
+        if part.is_water and i > 0:
+            if el.symbol == "H":
+                pieces.append((Fraction(1), 2 * factor))
+            elif el.symbol == "O":
+                pieces.append((Fraction(-2), factor))
+    distinct = sorted({v for v, _ in pieces})
+    total_atoms = sum(n for _, n in pieces)
+    average = sum(v * n for v, n in pieces) / total_atoms
+    if len(distinct) == 1 and distinct[0].denominator == 1:
+        return int(distinct[0])
+    if mean:
+        return _norm(Fraction(average))
+    if len(distinct) > 1:
+        listing = " and ".join(
+            f"{_fmt_state(v)} ({_word(_norm(sum(n for w, n in pieces if w == v)))} atom{'s' if sum(n for w, n in pieces if w == v) != 1 else ''})"
+            for v in distinct
+        )
+        raise ChemistryError(
+            f"{el.name} has more than one oxidation state in '{text}': {listing};"
+            f" pass mean=True for the mean, {_fmt_state(Fraction(average))}",
+            text=text,
+        )
+    raise ChemistryError(
+        f"the oxidation state of {el.symbol} in '{text}' is not a whole number"
+        f" (mean {_fmt_state(distinct[0])}); pass mean=True to accept the mean",
+        text=text,
+    )
+
+
+# ---------------------------------------------------------------------------
+# Canonical order
+# ---------------------------------------------------------------------------
+
+
+def cations_first(part: Part, target: int = 0) -> Part:
+    """The part with its cation runs moved before the others (CH3COONa ->
+    NaCH3COO), when it reads as ions; otherwise as written. Hydrogen stays
+    where it was written, so NH3 and CH3COOH keep their order."""
+    if part.is_water or len(part.items) < 2:
+        return part
+    try:
+        solution = _solve(part.items, target)
+    except CellchemError:
+        return part
+    if solution is None:
+        return part
+    path = solution[1]
+    runs = [(opt, any(s.charge > 0 and not (s.ion and s.ion.text == "H") for s in opt.shares)) for opt in path]
+    flags = [is_cation for _, is_cation in runs]
+    if flags == sorted(flags, reverse=True):
+        return part
+    ordered = [opt for opt, c in runs if c] + [opt for opt, c in runs if not c]
+    items: list[Item] = []
+    for opt in ordered:
+        items.extend(part.items[opt.start : opt.end])
+    return Part(tuple(items), part.multiplier)
+
+
+__all__ = [
+    "ChargeBalance",
+    "Share",
+    "charge_balance",
+    "net_charge",
+    "oxidation_state",
+    "cations_first",
+    "rule_states",
+    "Atom",
+]

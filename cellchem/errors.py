@@ -1,0 +1,60 @@
+"""The one error family for bad chemistry input.
+
+Every message is one line, because it may land in a spreadsheet cell. It quotes
+the input, gives a position counted from 1 where one applies, and says what was
+expected or what would resolve the problem.
+"""
+
+from __future__ import annotations
+
+
+class CellchemError(ValueError):
+    """Bad chemistry input: a formula, name, ion or quantity cellchem cannot use.
+
+    Attributes:
+        text: the input as it was given.
+        position: 1-based position in ``text`` where the problem was found, or None.
+        choices: readings that would resolve the problem (for example the
+            correctly cased formulas a wrong-case input allows), possibly empty.
+    """
+
+    def __init__(
+        self,
+        message: str,
+        *,
+        text: str | None = None,
+        position: int | None = None,
+        choices: tuple[str, ...] = (),
+    ) -> None:
+        super().__init__(message)
+        self.message = message
+        self.text = text
+        self.position = position
+        self.choices = tuple(choices)
+
+    def __str__(self) -> str:
+        return self.message
+
+    def __reduce__(self):  # keep the fields through pickling (multiprocessing)
+        return (
+            _rebuild,
+            (type(self), self.message, self.text, self.position, self.choices),
+        )
+
+
+def _rebuild(cls, message, text, position, choices):
+    return cls(message, text=text, position=position, choices=choices)
+
+
+class FormulaError(CellchemError):
+    """A formula that cannot be read: bad syntax, unknown symbol, wrong case."""
+
+
+class UnknownIonError(CellchemError):
+    """An ion given by name, symbol or formula that the ion catalog does not hold,
+    or one whose charge is left open."""
+
+
+class ChemistryError(CellchemError):
+    """A formula that reads correctly but cannot give the asked-for quantity,
+    such as a molar mass with an unknown water count."""

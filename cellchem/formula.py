@@ -1,0 +1,804 @@
+"""The formula engine: read formulas as inventories and supplier sheets write them.
+
+The accepted notation is written down, with examples that run as tests, in
+``docs/grammar.md``. In short: case-sensitive element symbols with counts,
+nested groups in ``()`` and ``[]``, hydrate and adduct parts joined by ``·``,
+``•``, ``∙``, ``⋅``, ``×``, ``*`` or ``.`` with a leading multiplier (which may
+be a decimal, a fraction such as ``1/2`` or ``½``, or ``x``/``n`` for an
+unknown count), and an ion charge at the end (``SO4^2-``, ``SO4 2-``,
+``SO4--``, ``Fe+3``, ``NH4+``, ``SO4(2-)``, ``SO₄²⁻``).
+
+The grammar (pyparsing) only recognises symbol-shaped tokens; looking a symbol
+up in the element table is a separate step, so that a message can say
+"unknown element symbol 'Xx'" rather than "Expected ...".
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+from dataclasses import dataclass, field
+from fractions import Fraction
+from functools import cache, cached_property, lru_cache
+from itertools import product
+from typing import Union
+
+import pyparsing as pp
+
+from .elements import is_symbol, symbols
+from .errors import FormulaError
+
+Number = Union[int, Fraction]
+
+MAX_LENGTH = 300  # characters; a formula cell longer than this is refused
+MAX_DEPTH = 8  # bracket nesting
+MAX_COUNT = 100_000  # largest count or multiplier accepted
+MAX_CHARGE = 12
+
+HYDRATE_DOTS = "·•∙⋅×*."
+CANONICAL_DOT = "·"
+
+
+# ---------------------------------------------------------------------------
+# The value
+# ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True, slots=True)
+class Atom:
+    """An element symbol with its count, e.g. ``O4`` in ``SO4``."""
+
+    symbol: str
+    count: int = 1
+
+    def counts(self) -> dict[str, Number]:
+        return {self.symbol: self.count}
+
+
+@dataclass(frozen=True, slots=True)
+class Group:
+    """A bracketed group with its count, e.g. ``(NO3)2`` or ``[Fe(CN)6]``.
+
+    ``bracket`` is ``"("`` or ``"["``: square brackets mark a coordination
+    entity and are kept in the canonical text even when the count is 1.
+    """
+
+    items: tuple[Atom | Group, ...]
+    count: int = 1
+    bracket: str = "("
+
+    def counts(self) -> dict[str, Number]:
+        return _scaled(_sum_counts(self.items), self.count)
+
+
+Item = Union[Atom, Group]
+
+
+@dataclass(frozen=True, slots=True)
+class Part:
+    """One component of a formula: the salt itself, or a hydrate/adduct part
+    after a dot. ``multiplier`` is None when the count is unknown (``xH2O``)."""
+
+    items: tuple[Item, ...]
+    multiplier: Number | None = 1
+
+    @property
+    def is_water(self) -> bool:
+        return self.items == (Atom("H", 2), Atom("O", 1))
+
+    def counts(self) -> dict[str, Number]:
+        """Element counts of this part including its multiplier (callers check
+        ``multiplier is None`` first: an unknown count gives no atoms)."""
+        return _scaled(_sum_counts(self.items), self.multiplier or 0)
+
+
+@dataclass(frozen=True)
+class Formula:
+    """A parsed formula: the parts as written, and the charge.
+
+    ``str()`` gives the canonical text: cations first, a polyatomic ion in
+    parentheses only when counted more than once, coordination entities in
+    square brackets, hydrate water after ``·``, a charge as ``^2-``.
+    ``text(ascii=True)`` writes ``.`` instead of ``·``; ``pretty()`` writes
+    Unicode subscripts and superscripts for labels.
+
+    Attributes:
+        parts: the salt and its hydrate or adduct parts, in order.
+        charge: the net charge written in the formula (0 if none).
+        source: the text the formula was read from.
+    """
+
+    parts: tuple[Part, ...]
+    charge: int = 0
+    source: str = field(default="", compare=False)
+
+    # -- composition ------------------------------------------------------
+    @property
+    def has_unknown_count(self) -> bool:
+        """True when a part has an unknown multiplier (``Na2CO3·xH2O``)."""
+        return any(part.multiplier is None for part in self.parts)
+
+    @cached_property
+    def counts(self) -> dict[str, Number]:
+        """Element counts over the parts whose count is known, in order of
+        first appearance. Use ``has_unknown_count`` to know whether any part
+        was left out."""
+        total: dict[str, Number] = {}
+        for part in self.parts:
+            if part.multiplier is None:
+                continue
+            for symbol, n in part.counts().items():
+                total[symbol] = _norm(total.get(symbol, 0) + n)
+        return total
+
+    @property
+    def water(self) -> Number | None:
+        """Water of crystallisation per formula unit: the summed multipliers of
+        the ``H2O`` parts after the first part; 0 for none; None if unknown."""
+        total: Number = 0
+        for part in self.parts[1:]:
+            if part.is_water:
+                if part.multiplier is None:
+                    return None
+                total = _norm(total + part.multiplier)
+        return total
+
+    @property
+    def is_hydrate(self) -> bool:
+        return any(part.is_water for part in self.parts[1:])
+
+    def anhydrous(self) -> Formula:
+        """The formula without its water of crystallisation."""
+        kept = (self.parts[0],) + tuple(p for p in self.parts[1:] if not p.is_water)
+        return Formula(kept, self.charge, self.source)
+
+    def with_water(self, n: Number | None) -> Formula:
+        """The same salt with ``n`` waters of crystallisation (0 for anhydrous,
+        None for an unknown count)."""
+        base = self.anhydrous()
+        if n == 0:
+            return base
+        water = Part((Atom("H", 2), Atom("O", 1)), _norm(Fraction(n)) if n is not None else None)
+        return Formula(base.parts + (water,), self.charge, self.source)
+
+    # -- text -------------------------------------------------------------
+    def text(self, ascii: bool = False) -> str:
+        """Canonical text; ``ascii=True`` writes ``.`` for the hydrate dot."""
+        dot = "." if ascii else CANONICAL_DOT
+        return dot.join(_render_part(p) for p in self._ordered_parts) + (
+            _render_charge(self.charge)
+        )
+
+    def pretty(self) -> str:
+        """Text for a label: Unicode subscript counts and superscript charge
+        (``CuSO₄·5H₂O``, ``SO₄²⁻``)."""
+        body = CANONICAL_DOT.join(
+            _subscript_counts(_render_part(p)) for p in self._ordered_parts
+        )
+        if self.charge:
+            magnitude = "" if abs(self.charge) == 1 else str(abs(self.charge))
+            sign = "+" if self.charge > 0 else "-"
+            body += (magnitude + sign).translate(_TO_SUPERSCRIPT)
+        return body
+
+    def __str__(self) -> str:
+        return self.text()
+
+    @cached_property
+    def _ordered_parts(self) -> tuple[Part, ...]:
+        # Cations first: the ion catalog knows which runs are cations.
+        from .charge import cations_first
+
+        return tuple(
+            cations_first(part, self.charge if i == 0 else 0) for i, part in enumerate(self.parts)
+        )
+
+
+def _norm(value: Number) -> Number:
+    if isinstance(value, Fraction) and value.denominator == 1:
+        return int(value)
+    return value
+
+
+def _sum_counts(items: tuple[Item, ...]) -> dict[str, Number]:
+    total: dict[str, Number] = {}
+    for item in items:
+        for symbol, n in item.counts().items():
+            total[symbol] = total.get(symbol, 0) + n
+    return total
+
+
+def _scaled(counts: dict[str, Number], factor: Number) -> dict[str, Number]:
+    if factor == 1:
+        return counts
+    return {symbol: _norm(n * factor) for symbol, n in counts.items()}
+
+
+# ---------------------------------------------------------------------------
+# Rendering
+# ---------------------------------------------------------------------------
+
+
+def _render_number(n: Number) -> str:
+    if isinstance(n, Fraction):
+        # Decimal text when it terminates (0.5, 0.25), else a fraction.
+        d = n.denominator
+        while d % 2 == 0:
+            d //= 2
+        while d % 5 == 0:
+            d //= 5
+        if d == 1:
+            text = f"{float(n):.6f}".rstrip("0").rstrip(".")
+            return text
+        return f"{n.numerator}/{n.denominator}"
+    return str(n)
+
+
+def render_items(items: tuple[Item, ...]) -> str:
+    """Canonical text of a run of items (no multiplier, no charge)."""
+    out = []
+    for item in items:
+        if isinstance(item, Atom):
+            out.append(item.symbol + (str(item.count) if item.count != 1 else ""))
+        elif item.bracket == "[":
+            out.append("[" + render_items(item.items) + "]" + (str(item.count) if item.count != 1 else ""))
+        elif item.count == 1:
+            out.append(render_items(item.items))
+        else:
+            out.append("(" + render_items(item.items) + ")" + str(item.count))
+    return "".join(out)
+
+
+def _render_part(part: Part) -> str:
+    if part.multiplier is None:
+        prefix = "x"
+    elif part.multiplier == 1:
+        prefix = ""
+    else:
+        prefix = _render_number(part.multiplier)
+    return prefix + render_items(part.items)
+
+
+def _render_charge(charge: int) -> str:
+    if not charge:
+        return ""
+    magnitude = "" if abs(charge) == 1 else str(abs(charge))
+    return "^" + magnitude + ("+" if charge > 0 else "-")
+
+
+_TO_SUBSCRIPT = str.maketrans("0123456789", "₀₁₂₃₄₅₆₇₈₉")
+_TO_SUPERSCRIPT = str.maketrans("0123456789+-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻")
+
+
+def _subscript_counts(text: str) -> str:
+    # Digits right after a symbol or a closing bracket are counts; a leading
+    # number (the multiplier) stays on the line.
+    return re.sub(r"(?<=[A-Za-z\)\]])\d+", lambda m: m.group().translate(_TO_SUBSCRIPT), text)
+
+
+# ---------------------------------------------------------------------------
+# Normalising pasted text
+# ---------------------------------------------------------------------------
+
+_SUBSCRIPTS = dict(zip("₀₁₂₃₄₅₆₇₈₉", "0123456789"))
+_SUPERSCRIPTS = dict(zip("⁰¹²³⁴⁵⁶⁷⁸⁹⁺⁻", "0123456789+-"))
+_MINUS_SIGNS = "−–—‐‑‒﹣－"
+_ZERO_WIDTH = "\u200b\u200c\u200d\u2060\ufeff\u00ad"
+
+
+def _normalise(text: str) -> tuple[str, list[int]]:
+    """Map pasted Unicode to the ASCII notation the grammar reads.
+
+    Returns the normalised text and, for each of its characters, the 0-based
+    index of the character of ``text`` it came from (for error positions).
+    Subscript digits become counts; a run of superscript digits and signs
+    becomes a charge written with ``^``; minus signs and dashes become ``-``;
+    every kind of space becomes a plain space; zero-width characters go.
+    """
+    out: list[str] = []
+    where: list[int] = []
+    in_superscript = False
+    for i, ch in enumerate(text):
+        if ch in _ZERO_WIDTH:
+            continue
+        if ch in _SUPERSCRIPTS:
+            if not in_superscript:
+                out.append("^")
+                where.append(i)
+                in_superscript = True
+            out.append(_SUPERSCRIPTS[ch])
+            where.append(i)
+            continue
+        in_superscript = False
+        if ch in _SUBSCRIPTS:
+            mapped = _SUBSCRIPTS[ch]
+        elif ch in _MINUS_SIGNS:
+            mapped = "-"
+        elif ch == "＋":
+            mapped = "+"
+        elif ch.isspace():
+            mapped = " "
+        elif "\uff01" <= ch <= "\uff5e":  # fullwidth forms pasted from East Asian fonts
+            mapped = unicodedata.normalize("NFKC", ch)
+        else:
+            mapped = ch
+        out.append(mapped)
+        where.append(i)
+    return "".join(out), where
+
+
+# ---------------------------------------------------------------------------
+# The grammar
+# ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True, slots=True)
+class _Symbol:
+    text: str
+    loc: int
+
+
+@dataclass(frozen=True, slots=True)
+class _Charge:
+    value: int
+    attached_sign: bool  # a lone sign written right after a count: 'NH4+', 'Fe3+'
+
+
+def _charge_value(text: str) -> int:
+    """'2-' -> -2, '+3' -> 3, '--' -> -2, '+' -> 1."""
+    digits = "".join(c for c in text if c.isdigit())
+    signs = [c for c in text if c in "+-"]
+    if len(set(signs)) != 1:
+        raise pp.ParseException(text, 0, "a charge with one kind of sign")
+    sign = 1 if signs[0] == "+" else -1
+    if digits:
+        if len(signs) != 1:
+            raise pp.ParseException(text, 0, "a charge such as 2- or --, not both")
+        return sign * int(digits)
+    return sign * len(signs)
+
+
+@cache
+def _grammar() -> pp.ParserElement:
+    count = pp.Regex(r"\d+").leave_whitespace().set_name("count")
+    count.set_parse_action(lambda t: int(t[0]))
+    symbol = pp.Regex(r"[A-Z][a-z]?").set_name("element symbol")
+    symbol.set_parse_action(lambda s, loc, t: _Symbol(t[0], loc))
+    atom = (symbol + pp.Opt(count, default=1)).set_name("element")
+    atom.set_parse_action(lambda t: ("atom", t[0], t[1]))
+
+    items = pp.Forward().set_name("formula")
+    paren = (pp.Suppress("(") + pp.Group(items) + pp.Suppress(")") + pp.Opt(count, default=1)).set_name(
+        "group in ()"
+    )
+    paren.set_parse_action(lambda t: ("group", "(", tuple(t[0]), t[1]))
+    square = (pp.Suppress("[") + pp.Group(items) + pp.Suppress("]") + pp.Opt(count, default=1)).set_name(
+        "group in []"
+    )
+    square.set_parse_action(lambda t: ("group", "[", tuple(t[0]), t[1]))
+    items <<= pp.OneOrMore(atom | paren | square)
+
+    multiplier = pp.Regex(r"\d+/\d+|\d+(?:\.\d+)?|\.\d+|½|[xny]").set_name("multiplier")
+    part = (pp.Opt(multiplier, default="1") + pp.Group(items)).set_name("formula part")
+    part.set_parse_action(lambda t: ("part", t[0], tuple(t[1])))
+    dot = pp.one_of(list(HYDRATE_DOTS)).set_name("hydrate dot")
+
+    sign_run = r"(?:\++|-+)"
+    # Every charge form states its own leading space, so that 'SO4 2-' (a
+    # spaced charge) and 'NH4+' (a sign right after a count) can be told apart.
+    caret = pp.Regex(rf"\s*\^\s*(?:\d+[+-]|[+-]\d+|{sign_run})").leave_whitespace()
+    caret.set_parse_action(lambda t: _Charge(_charge_value(t[0].strip()[1:]), False))
+    bracketed = pp.Regex(r"\s*\(\s*(?:\d*[+-]|[+-]\d+)\s*\)").leave_whitespace()
+    bracketed.set_parse_action(lambda t: _Charge(_charge_value(t[0].strip()[1:-1]), False))
+    spaced = pp.Regex(rf"\s+(?:\d+[+-]|[+-]\d+|{sign_run})").leave_whitespace()
+    spaced.set_parse_action(lambda t: _Charge(_charge_value(t[0].strip()), False))
+    attached = pp.Regex(rf"[+-]\d+|{sign_run}").leave_whitespace()
+    attached.set_parse_action(lambda t: _Charge(_charge_value(t[0]), len(t[0]) == 1))
+    charge = pp.MatchFirst([caret, bracketed, spaced, attached]).leave_whitespace(recursive=False)
+    charge.set_name("charge")
+
+    # The repetition must not swallow the space before a spaced charge.
+    more_parts = pp.ZeroOrMore(pp.Suppress(dot) + part).leave_whitespace(recursive=False)
+    formula = part + more_parts + pp.Opt(charge) + pp.StringEnd()
+    formula.set_name("formula")
+    return formula
+
+
+# ---------------------------------------------------------------------------
+# Building the value, and the messages
+# ---------------------------------------------------------------------------
+
+
+def _multiplier_value(text: str) -> Number | None:
+    if text in ("x", "n", "y"):
+        return None
+    if text == "½":
+        return Fraction(1, 2)
+    if "/" in text:
+        num, den = text.split("/")
+        if int(den) == 0:
+            raise ValueError("zero denominator")
+        return _norm(Fraction(int(num), int(den)))
+    return _norm(Fraction(text))
+
+
+class _Builder:
+    """Turns the parse tree into Atom/Group/Part, checking symbols and counts."""
+
+    def __init__(self, text: str, normal: str, where: list[int]):
+        self.text = text
+        self.normal = normal
+        self.where = where
+
+    def pos(self, loc: int) -> int:
+        """1-based position in the original text of normalised index ``loc``."""
+        if not self.where:
+            return 1
+        loc = min(max(loc, 0), len(self.where) - 1)
+        return self.where[loc] + 1
+
+    def item(self, node) -> Item:
+        if node[0] == "atom":
+            sym: _Symbol = node[1]
+            if not is_symbol(sym.text):
+                raise _unknown_symbol(self.text, sym.text, self.pos(sym.loc))
+            return Atom(sym.text, self._count(node[2], sym))
+        _, bracket, inner, n = node
+        return Group(tuple(self.item(x) for x in inner), self._count(n, None), bracket)
+
+    def _count(self, n: int, sym: _Symbol | None) -> int:
+        if n == 0:
+            where = f" after '{sym.text}' at position {self.pos(sym.loc)}" if sym else ""
+            raise FormulaError(
+                f"a count of 0{where} in '{self.text}' (counts are whole numbers from 1)",
+                text=self.text,
+                position=self.pos(sym.loc) if sym else None,
+            )
+        if n > MAX_COUNT:
+            raise FormulaError(
+                f"the count {n} in '{self.text}' is larger than {MAX_COUNT:,}", text=self.text
+            )
+        return n
+
+    def part(self, node) -> Part:
+        _, mult_text, items = node
+        try:
+            multiplier = _multiplier_value(mult_text)
+        except (ValueError, ZeroDivisionError):
+            raise FormulaError(
+                f"the multiplier '{mult_text}' in '{self.text}' is not a number", text=self.text
+            ) from None
+        if multiplier is not None and (multiplier <= 0 or multiplier > MAX_COUNT):
+            raise FormulaError(
+                f"the multiplier '{mult_text}' in '{self.text}' is out of range"
+                f" (expected a number above 0 and up to {MAX_COUNT:,})",
+                text=self.text,
+            )
+        return Part(tuple(self.item(x) for x in items), multiplier)
+
+
+def _unknown_symbol(text: str, sym: str, position: int) -> FormulaError:
+    readings = case_readings(text)
+    hint = ""
+    if readings:
+        hint = "; element symbols are case-sensitive: did you mean " + _or_list(readings) + "?"
+    return FormulaError(
+        f"unknown element symbol '{sym}' at position {position} in '{text}'{hint}",
+        text=text,
+        position=position,
+        choices=readings,
+    )
+
+
+def _or_list(readings: tuple[str, ...]) -> str:
+    quoted = [f"'{r}'" for r in readings]
+    if len(quoted) == 1:
+        return quoted[0]
+    return ", ".join(quoted[:-1]) + " or " + quoted[-1]
+
+
+_OPEN = {"(": ")", "[": "]"}
+_CLOSE = {")": "(", "]": "["}
+
+
+def _check_brackets(text: str, normal: str, b: _Builder) -> None:
+    stack: list[tuple[str, int]] = []
+    for i, ch in enumerate(normal):
+        if ch in _OPEN:
+            # '(2-)' at the end is a charge, not a group
+            if ch == "(" and re.fullmatch(r"\(\s*(?:\d*[+-]|[+-]\d+)\s*\)\s*", normal[i:]):
+                break
+            stack.append((ch, i))
+            if len(stack) > MAX_DEPTH:
+                raise FormulaError(
+                    f"'{text}' nests brackets more than {MAX_DEPTH} deep", text=text, position=b.pos(i)
+                )
+        elif ch in _CLOSE:
+            if not stack:
+                raise FormulaError(
+                    f"the '{ch}' at position {b.pos(i)} of '{text}' has no matching '{_CLOSE[ch]}'",
+                    text=text,
+                    position=b.pos(i),
+                )
+            opener, at = stack.pop()
+            if _OPEN[opener] != ch:
+                raise FormulaError(
+                    f"the '{opener}' at position {b.pos(at)} of '{text}' is closed by '{ch}'"
+                    f" at position {b.pos(i)} (expected '{_OPEN[opener]}')",
+                    text=text,
+                    position=b.pos(i),
+                )
+            if i == at + 1:
+                raise FormulaError(
+                    f"the brackets at position {b.pos(at)} of '{text}' are empty", text=text, position=b.pos(at)
+                )
+    if stack:
+        opener, at = stack[-1]
+        raise FormulaError(
+            f"the '{opener}' at position {b.pos(at)} of '{text}' is never closed (expected '{_OPEN[opener]}')",
+            text=text,
+            position=b.pos(at),
+        )
+
+
+_ALLOWED = re.compile(r"[A-Za-z0-9()\[\]^+\-/ ½" + re.escape(HYDRATE_DOTS) + r"]")
+
+
+def _syntax_error(text: str, normal: str, b: _Builder, exc: pp.ParseBaseException) -> FormulaError:
+    # 1. characters that never belong in a formula
+    for i, ch in enumerate(normal):
+        if not _ALLOWED.match(ch):
+            return FormulaError(
+                f"unexpected character '{text[b.pos(i) - 1]}' at position {b.pos(i)} in '{text}'"
+                " (expected element symbols, counts, brackets, a hydrate dot or a charge)",
+                text=text,
+                position=b.pos(i),
+            )
+    # 2. an unknown symbol-shaped token before the failure point
+    for m in re.finditer(r"[A-Z][a-z]?", normal):
+        if m.start() > exc.loc:
+            break
+        if not is_symbol(m.group()):
+            return _unknown_symbol(text, m.group(), b.pos(m.start()))
+    # 3. letters in the wrong case: a run of letters that is not a sequence of
+    #    capitalised symbols (and not an 'x'/'n' multiplier before a symbol)
+    for m in re.finditer(r"[A-Za-z]+", normal):
+        run = m.group()
+        if re.fullmatch(r"(?:[A-Z][a-z]?)+", run) or re.fullmatch(r"[xny](?:[A-Z][a-z]?)+", run):
+            continue
+        readings = case_readings(text)
+        hint = "; did you mean " + _or_list(readings) + "?" if readings else ""
+        return FormulaError(
+            f"'{text}' is not a valid formula: element symbols are case-sensitive and start with"
+            f" a capital letter ('{run}' at position {b.pos(m.start())}){hint}",
+            text=text,
+            position=b.pos(m.start()),
+            choices=readings,
+        )
+    # 4. a dangling hydrate dot or multiplier
+    stripped = normal.rstrip()
+    if stripped and stripped[-1] in HYDRATE_DOTS:
+        i = len(stripped) - 1
+        return FormulaError(
+            f"nothing follows the '{text[b.pos(i) - 1]}' at position {b.pos(i)} of '{text}'"
+            " (expected a hydrate or adduct part, e.g. '5H2O')",
+            text=text,
+            position=b.pos(i),
+        )
+    m = re.search(r"(^|[" + re.escape(HYDRATE_DOTS) + r"]\s*)(\d+(?:\.\d+)?|[xny])\s*$", stripped)
+    if m:
+        i = m.start(2)
+        return FormulaError(
+            f"the multiplier '{m.group(2)}' at position {b.pos(i)} of '{text}' is not followed by a"
+            " formula (expected e.g. '5H2O')",
+            text=text,
+            position=b.pos(i),
+        )
+    # 5. anything else: say where and what was expected
+    loc = exc.loc
+    found = normal[loc] if loc < len(normal) else ""
+    if found == " ":
+        found = "a space"
+    elif found:
+        found = f"'{text[b.pos(loc) - 1]}'"
+    else:
+        found = "the end"
+    return FormulaError(
+        f"'{text}' is not a valid formula: unexpected {found} at position {b.pos(loc)}"
+        " (expected an element symbol, a count, a bracket, a hydrate dot or a charge at the end)",
+        text=text,
+        position=b.pos(loc),
+    )
+
+
+def _resolve_attached_charge(f: Formula, text: str) -> Formula:
+    """'NH4+' (ammonium) against 'Fe3+' (iron(III)): a lone sign after a count.
+
+    The digits before the sign are the count in one reading, and the last digit
+    is the charge in the other. A group in brackets ('[Fe(CN)6]4-') always
+    takes the charge reading. For an element, the reading that is an ion in
+    the catalog wins; when both or neither are, the input is refused with the
+    two readings, and the explicit ways to write each.
+    """
+    last_part = f.parts[-1]
+    last = last_part.items[-1]
+    digits = str(last.count)
+    if last.count == 1 or len(f.parts) > 1 or last_part.multiplier != 1 or digits[-1] == "0":
+        return f
+    new_count = int(digits[:-1]) if len(digits) > 1 else 1
+    sign = 1 if f.charge > 0 else -1
+    if isinstance(last, Group):
+        moved: Item = Group(last.items, new_count, last.bracket)
+    else:
+        moved = Atom(last.symbol, new_count)
+    as_charge = Formula((Part(last_part.items[:-1] + (moved,), 1),), sign * int(digits[-1]), text)
+    if isinstance(last, Group):
+        return as_charge
+    from .ions import catalog_name
+
+    known_count = catalog_name(f.counts, f.charge)
+    known_charge = catalog_name(as_charge.counts, as_charge.charge)
+    if known_count and not known_charge:
+        return f
+    if known_charge and not known_count:
+        return as_charge
+    body_a = render_items(last_part.items)
+    body_b = render_items(as_charge.parts[0].items)
+    charge_a = _render_charge(f.charge)
+    charge_b = _render_charge(as_charge.charge)
+    name_a = f" ({known_count})" if known_count else ""
+    name_b = f" ({known_charge})" if known_charge else ""
+    raise FormulaError(
+        f"'{text}' is ambiguous: it reads as {body_a} with charge {charge_a[1:]}{name_a}"
+        f" or as {body_b} with charge {charge_b[1:]}{name_b}; write '{body_a}{charge_a}'"
+        f" or '{body_b}{charge_b}'",
+        text=text,
+        choices=(body_a + charge_a, body_b + charge_b),
+    )
+
+
+_DECIMAL_COUNT = re.compile(r"(?<![\d.])(?:1|0\d*)\.\d")
+
+
+@lru_cache(maxsize=65536)
+def parse_formula(text: str) -> Formula:
+    """Read a formula as inventories and supplier sheets write it.
+
+    Args:
+        text: e.g. ``"CuSO4·5H2O"``, ``"Na2B4O7.10H2O"``, ``"SO4 2-"``,
+            ``"[Fe(CN)6]4-"``, ``"CuSO₄·5H₂O"``.
+
+    Returns:
+        An immutable Formula; ``str()`` of it is the canonical text.
+
+    Raises:
+        CellchemError: (a FormulaError) the text is not a formula; the message
+            quotes it, gives the position counted from 1 and says what was
+            expected.
+
+    >>> str(parse_formula("CuSO₄ . 5 H₂O"))
+    'CuSO4·5H2O'
+    >>> parse_formula("SO4--").charge
+    -2
+    """
+    if not isinstance(text, str):
+        raise FormulaError(f"{text!r} is not a formula (expected text such as 'NaCl')", text=str(text))
+    if len(text) > MAX_LENGTH:
+        raise FormulaError(
+            f"the text beginning '{text[:20]}' is {len(text)} characters long, too long to be a"
+            f" formula (at most {MAX_LENGTH})",
+            text=text[:MAX_LENGTH],
+        )
+    normal, where = _normalise(text)
+    # strip, keeping the position map in step
+    lead = len(normal) - len(normal.lstrip())
+    normal_stripped = normal.strip()
+    where = where[lead : lead + len(normal_stripped)]
+    normal = normal_stripped
+    b = _Builder(text, normal, where)
+    if not normal:
+        raise FormulaError("no formula given (the text is empty)", text=text)
+    _check_brackets(text, normal, b)
+    m = _DECIMAL_COUNT.search(normal)
+    if m and m.start() > 0 and (normal[m.start() - 1].isalpha() or normal[m.start() - 1] in ")]"):
+        raise FormulaError(
+            f"'{text}' has a decimal count at position {b.pos(m.start())}: decimal counts are not"
+            " read; if the '.' joins a hydrate part, write it with '·'",
+            text=text,
+            position=b.pos(m.start()),
+        )
+    try:
+        tree = _grammar().parse_string(normal, parse_all=True)
+    except pp.ParseBaseException as exc:
+        raise _syntax_error(text, normal, b, exc) from None
+    parts = []
+    charge = _Charge(0, False)
+    for node in tree:
+        if isinstance(node, _Charge):
+            charge = node
+        else:
+            parts.append(b.part(node))
+    if abs(charge.value) > MAX_CHARGE:
+        raise FormulaError(
+            f"the charge {charge.value:+d} in '{text}' is out of range (at most {MAX_CHARGE})", text=text
+        )
+    formula = Formula(tuple(parts), charge.value, text)
+    if charge.attached_sign:
+        formula = _resolve_attached_charge(formula, text)
+    return formula
+
+
+def as_formula(formula: str | Formula) -> Formula:
+    """Accept a Formula or text (parsed, cached)."""
+    if isinstance(formula, Formula):
+        return formula
+    return parse_formula(formula)
+
+
+# ---------------------------------------------------------------------------
+# Case readings
+# ---------------------------------------------------------------------------
+
+MAX_READINGS = 6
+
+
+@cache
+def _symbols_casefolded() -> dict[str, str]:
+    return {s.casefold(): s for s in symbols()}
+
+
+def _letter_run_readings(run: str, limit: int) -> list[str]:
+    table = _symbols_casefolded()
+    results: list[str] = []
+
+    def walk(i: int, acc: list[str]) -> None:
+        if len(results) >= limit:
+            return
+        if i == len(run):
+            results.append("".join(acc))
+            return
+        for n in (1, 2):
+            piece = run[i : i + n].casefold()
+            if len(piece) == n and piece in table:
+                acc.append(table[piece])
+                walk(i + n, acc)
+                acc.pop()
+
+    walk(0, [])
+    return results
+
+
+def case_readings(text: str) -> tuple[str, ...]:
+    """The formulas the letters of ``text`` allow when their case is ignored.
+
+    Used to explain a wrong-case input ('NACL' gives ('NaCl',); 'co' gives
+    ('Co', 'CO')). The reading that is ``text`` itself, if any, is left out.
+    At most a handful are returned.
+
+    >>> case_readings("co")
+    ('Co', 'CO')
+    """
+    normal, _ = _normalise(text.strip())
+    pieces = re.split(r"([A-Za-z]+)", normal)
+    options: list[list[str]] = []
+    for i, piece in enumerate(pieces):
+        if i % 2 == 1:
+            if piece in ("x", "n", "y") and i + 1 < len(pieces) and i > 0:
+                options.append([piece])
+                continue
+            found = _letter_run_readings(piece, MAX_READINGS * 4)
+            if not found:
+                return ()
+            options.append(found)
+        else:
+            options.append([piece])
+    out: list[str] = []
+    for combo in product(*options):
+        reading = "".join(combo)
+        if reading != normal and reading not in out:
+            out.append(reading)
+        if len(out) >= MAX_READINGS:
+            break
+    # Prefer readings with fewer, longer symbols first ('Co' before 'CO').
+    out.sort(key=lambda r: sum(1 for c in r if c.isupper()))
+    return tuple(out)
