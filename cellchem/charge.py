@@ -23,7 +23,7 @@ from fractions import Fraction
 from functools import lru_cache
 
 from .elements import element
-from .errors import ChemistryError, CellchemError
+from .errors import CellchemError, ChemistryError
 from .formula import Atom, Formula, Group, Item, Number, Part, as_formula, render_items
 from .ions import Ion, ions_in
 
@@ -122,10 +122,16 @@ def _run_options(items: tuple[Item, ...], start: int, end: int, inside: bool, mi
     options: list[_Option] = []
     for ion, k in ions_in(counts):
         options.append(
-            _Option(start, end, ion.charge * k, (1 if ion.is_homonuclear else 0, 0, k), (Share(ion.label, ion.charge, k, ion),))
+            _Option(
+                start,
+                end,
+                ion.charge * k,
+                (1 if ion.is_homonuclear else 0, 0, k),
+                (Share(ion.label, ion.charge, k, ion),),
+            )
         )
     if mixed and len(counts) == 1:
-        (symbol, n), = counts.items()
+        ((symbol, n),) = counts.items()
         mono = [ion for ion, k in ions_in({symbol: 1})]
         if isinstance(n, int) and n >= 2 and len(mono) >= 2 and n <= 24:
             for combo in _compositions(n, len(mono)):
@@ -221,7 +227,11 @@ def _acceptable_without_metal(path: tuple[_Option, ...]) -> bool:
             if ion is None:
                 continue
             symbols = tuple(ion.formula.counts)
-            if ion.charge < 0 and len(symbols) == 1 and (symbols[0] in _NOT_ACID_ANIONS or ion.is_homonuclear and symbols[0] == "O"):
+            if (
+                ion.charge < 0
+                and len(symbols) == 1
+                and (symbols[0] in _NOT_ACID_ANIONS or (ion.is_homonuclear and symbols[0] == "O"))
+            ):
                 return False
             if ion.charge > 0 and ion.is_monatomic and symbols[0] != "H":
                 return False
@@ -454,7 +464,6 @@ def _analyse(formula: Formula) -> ChargeBalance:
     text = formula.text()
     counts = formula.counts
     if len(counts) == 1 and len(formula.parts) == 1 and not formula.charge:
-        symbol = next(iter(counts))
         return ChargeBalance(
             True, ELEMENT, (Share(text, 0, 1, None),), f"{text} is an element (oxidation state 0)"
         )
@@ -474,10 +483,22 @@ def _analyse(formula: Formula) -> ChargeBalance:
             assert reading.states is not None
             states = ", ".join(f"{s} {_fmt_state(v)}" for s, v in reading.states.items())
             molecular.append(states if len(formula.parts) == 1 else f"{render_items(part.items)} ({states})")
-            shares.append(Share(render_items(part.items), 0 if i else formula.charge, factor if part.multiplier is not None else "x", None))  # type: ignore[arg-type]
+            shares.append(
+                Share(
+                    render_items(part.items),
+                    0 if i else formula.charge,
+                    factor if part.multiplier is not None else "x",
+                    None,
+                )
+            )  # type: ignore[arg-type]
         else:
-            scaled = _scale(reading.shares, factor) if part.multiplier is not None else tuple(
-                Share(s.label, s.charge, "x", s.ion) for s in reading.shares  # type: ignore[arg-type]
+            scaled = (
+                _scale(reading.shares, factor)
+                if part.multiplier is not None
+                else tuple(
+                    Share(s.label, s.charge, "x", s.ion)
+                    for s in reading.shares  # type: ignore[arg-type]
+                )
             )
             shares.extend(scaled)
     merged = _merge(shares)
@@ -617,6 +638,11 @@ def _option_states(opt: _Option, factor: Number) -> list[tuple[str, Fraction, Nu
     return out
 
 
+def _atoms(n: Number) -> str:
+    n = _norm(Fraction(n))
+    return f"{_word(n)} atom" + ("" if n == 1 else "s")
+
+
 def oxidation_state(formula: str | Formula, symbol: str, mean: bool = False) -> int | Fraction:
     """The oxidation state of an element in a formula.
 
@@ -679,8 +705,7 @@ def oxidation_state(formula: str | Formula, symbol: str, mean: bool = False) -> 
         return _norm(Fraction(average))
     if len(distinct) > 1:
         listing = " and ".join(
-            f"{_fmt_state(v)} ({_word(_norm(sum(n for w, n in pieces if w == v)))} atom{'s' if sum(n for w, n in pieces if w == v) != 1 else ''})"
-            for v in distinct
+            f"{_fmt_state(v)} ({_atoms(sum(n for w, n in pieces if w == v))})" for v in distinct
         )
         raise ChemistryError(
             f"{el.name} has more than one oxidation state in '{text}': {listing};"
@@ -712,7 +737,9 @@ def cations_first(part: Part, target: int = 0) -> Part:
     if solution is None:
         return part
     path = solution[1]
-    runs = [(opt, any(s.charge > 0 and not (s.ion and s.ion.text == "H") for s in opt.shares)) for opt in path]
+    runs = [
+        (opt, any(s.charge > 0 and not (s.ion and s.ion.text == "H") for s in opt.shares)) for opt in path
+    ]
     flags = [is_cation for _, is_cation in runs]
     if flags == sorted(flags, reverse=True):
         return part
@@ -724,12 +751,12 @@ def cations_first(part: Part, target: int = 0) -> Part:
 
 
 __all__ = [
+    "Atom",
     "ChargeBalance",
     "Share",
+    "cations_first",
     "charge_balance",
     "net_charge",
     "oxidation_state",
-    "cations_first",
     "rule_states",
-    "Atom",
 ]

@@ -61,9 +61,7 @@ class Element:
 
 # Nonmetals and metalloids, which do not form simple cations in salts
 # (common practice; IUPAC 2005 IR-3.6 lists the collective names).
-_NON_METALS = frozenset(
-    "H He B C N O F Ne Si P S Cl Ar Ge As Se Br Kr Sb Te I Xe At Rn Ts Og".split()
-)
+_NON_METALS = frozenset("H He B C N O F Ne Si P S Cl Ar Ge As Se Br Kr Sb Te I Xe At Rn Ts Og".split())
 
 
 def _optional_float(text: str) -> float | None:

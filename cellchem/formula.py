@@ -21,14 +21,13 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from functools import cache, cached_property, lru_cache
 from itertools import product
-from typing import Union
 
 import pyparsing as pp
 
 from .elements import is_symbol, symbols
 from .errors import FormulaError
 
-Number = Union[int, Fraction]
+Number = int | Fraction
 
 MAX_LENGTH = 300  # characters; a formula cell longer than this is refused
 MAX_DEPTH = 8  # bracket nesting
@@ -71,7 +70,7 @@ class Group:
         return _scaled(_sum_counts(self.items), self.count)
 
 
-Item = Union[Atom, Group]
+Item = Atom | Group
 
 
 @dataclass(frozen=True, slots=True)
@@ -165,16 +164,12 @@ class Formula:
     def text(self, ascii: bool = False) -> str:
         """Canonical text; ``ascii=True`` writes ``.`` for the hydrate dot."""
         dot = "." if ascii else CANONICAL_DOT
-        return dot.join(_render_part(p) for p in self._ordered_parts) + (
-            _render_charge(self.charge)
-        )
+        return dot.join(_render_part(p) for p in self._ordered_parts) + (_render_charge(self.charge))
 
     def pretty(self) -> str:
         """Text for a label: Unicode subscript counts and superscript charge
         (``CuSO₄·5H₂O``, ``SO₄²⁻``)."""
-        body = CANONICAL_DOT.join(
-            _subscript_counts(_render_part(p)) for p in self._ordered_parts
-        )
+        body = CANONICAL_DOT.join(_subscript_counts(_render_part(p)) for p in self._ordered_parts)
         if self.charge:
             magnitude = "" if abs(self.charge) == 1 else str(abs(self.charge))
             sign = "+" if self.charge > 0 else "-"
@@ -184,14 +179,15 @@ class Formula:
     def __str__(self) -> str:
         return self.text()
 
+    def __repr__(self) -> str:
+        return f"Formula({self.text()!r})"
+
     @cached_property
     def _ordered_parts(self) -> tuple[Part, ...]:
         # Cations first: the ion catalog knows which runs are cations.
         from .charge import cations_first
 
-        return tuple(
-            cations_first(part, self.charge if i == 0 else 0) for i, part in enumerate(self.parts)
-        )
+        return tuple(cations_first(part, self.charge if i == 0 else 0) for i, part in enumerate(self.parts))
 
 
 def _norm(value: Number) -> Number:
@@ -455,9 +451,7 @@ class _Builder:
                 position=self.pos(sym.loc) if sym else None,
             )
         if n > MAX_COUNT:
-            raise FormulaError(
-                f"the count {n} in '{self.text}' is larger than {MAX_COUNT:,}", text=self.text
-            )
+            raise FormulaError(f"the count {n} in '{self.text}' is larger than {MAX_COUNT:,}", text=self.text)
         return n
 
     def part(self, node) -> Part:
@@ -530,12 +524,15 @@ def _check_brackets(text: str, normal: str, b: _Builder) -> None:
                 )
             if i == at + 1:
                 raise FormulaError(
-                    f"the brackets at position {b.pos(at)} of '{text}' are empty", text=text, position=b.pos(at)
+                    f"the brackets at position {b.pos(at)} of '{text}' are empty",
+                    text=text,
+                    position=b.pos(at),
                 )
     if stack:
         opener, at = stack[-1]
         raise FormulaError(
-            f"the '{opener}' at position {b.pos(at)} of '{text}' is never closed (expected '{_OPEN[opener]}')",
+            f"the '{opener}' at position {b.pos(at)} of '{text}' is never closed"
+            f" (expected '{_OPEN[opener]}')",
             text=text,
             position=b.pos(at),
         )

@@ -87,6 +87,9 @@ class Ion:
     def __str__(self) -> str:
         return self.label
 
+    def __repr__(self) -> str:
+        return f"Ion({self.label!r}, {self.name!r})"
+
 
 def _ion_from_row(row: dict[str, str]) -> Ion:
     formula = parse_formula(row["formula"])
@@ -235,7 +238,9 @@ def find_ion(text: str, role: str | None = None) -> Ion:
     'sulfate'
     """
     if not isinstance(text, str) or not text.strip():
-        raise UnknownIonError(f"no ion given (expected a name such as 'sulfate' or a formula such as 'SO4 2-')", text=str(text))
+        raise UnknownIonError(
+            "no ion given (expected a name such as 'sulfate' or a formula such as 'SO4 2-')", text=str(text)
+        )
     raw = text.strip()
     wanted = {"cation": 1, "anion": -1}.get(role or "", 0)
 
@@ -263,9 +268,7 @@ def find_ion(text: str, role: str | None = None) -> Ion:
     except CellchemError:
         el = None
     if el is not None:
-        own = tuple(
-            ion for ion in catalog() if ion.is_monatomic and ion.formula.counts.get(el.symbol) == 1
-        )
+        own = tuple(ion for ion in catalog() if ion.is_monatomic and ion.formula.counts.get(el.symbol) == 1)
         own = pick(own)
         if len(own) > 1:
             raise UnknownIonError(
@@ -304,8 +307,7 @@ def find_ion(text: str, role: str | None = None) -> Ion:
         return same[0]
     if len(same) > 1:
         raise UnknownIonError(
-            f"'{raw}' has no charge and matches more than one ion: {_choices_text(same)};"
-            " give the charge",
+            f"'{raw}' has no charge and matches more than one ion: {_choices_text(same)}; give the charge",
             text=raw,
             choices=tuple(i.label for i in same),
         )

@@ -13,7 +13,7 @@ from functools import lru_cache
 
 from .charge import charge_balance
 from .elements import MASS_NUMBER, element
-from .errors import ChemistryError, CellchemError
+from .errors import CellchemError, ChemistryError
 from .formula import Formula, Number, as_formula, parse_formula, render_items
 
 
@@ -52,8 +52,7 @@ def _refuse_unknown(f: Formula, what: str) -> None:
         if f.water is None:
             raise ChemistryError(
                 f"the water count in '{text}' is unknown, so its {what} cannot be given;"
-                f" give the number of waters (for example '{f.with_water(1).text()}' or the anhydrous"
-                f" '{f.anhydrous().text()}')",
+                f" write the number of waters in place of 'x', or the anhydrous '{f.anhydrous().text()}'",
                 text=text,
             )
         raise ChemistryError(
@@ -147,7 +146,7 @@ def mass_fraction(formula: str | Formula, part: str) -> float:
             unknown, or the formula holds no such ion or group.
 
     >>> round(mass_fraction("CuSO4·5H2O", "H2O"), 4)
-    0.3607
+    0.3608
     """
     f = as_formula(formula)
     _refuse_unknown(f, "mass fraction")
