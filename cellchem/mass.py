@@ -7,6 +7,7 @@ standard atomic weight says so in its ``notes``.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import lru_cache
@@ -46,13 +47,19 @@ class ElementShare:
     percent: float
 
 
+def _unknown_letter(text: str) -> str:
+    m = re.search(r"(?<![A-Za-z])([xny])(?=\s*[A-Z(\[])", text)
+    return m.group(1) if m else "x"
+
+
 def _refuse_unknown(f: Formula, what: str) -> None:
     if f.has_unknown_count:
         text = f.source or f.text()
         if f.water is None:
             raise ChemistryError(
                 f"the water count in '{text}' is unknown, so its {what} cannot be given;"
-                f" write the number of waters in place of 'x', or the anhydrous '{f.anhydrous().text()}'",
+                f" write the number of waters in place of '{_unknown_letter(text)}', or the anhydrous"
+                f" '{f.anhydrous().text()}'",
                 text=text,
             )
         raise ChemistryError(
@@ -141,6 +148,10 @@ def mass_fraction(formula: str | Formula, part: str) -> float:
         part: an element symbol (``'Cu'``), an ion or group (``'SO4'``,
             ``'NH4'``), or ``'H2O'`` for the water of crystallisation.
 
+    An element that the formula does not hold gives 0.0; an ion or group it
+    does not hold is refused, since the formula may hold a related one
+    (NaHCO3 holds HCO3-, not CO3 2-).
+
     Raises:
         CellchemError: the formula or part cannot be read, a count is
             unknown, or the formula holds no such ion or group.
@@ -155,6 +166,12 @@ def mass_fraction(formula: str | Formula, part: str) -> float:
         p = parse_formula(part)
     except CellchemError as exc:
         raise ChemistryError(f"the part '{part}' cannot be read: {exc}", text=part) from exc
+    if len(p.parts) > 1 or p.parts[0].multiplier != 1:
+        raise ChemistryError(
+            f"the part '{part}' has a multiplier or a hydrate dot; give one element, ion or group"
+            " (such as 'Cu', 'SO4' or 'H2O')",
+            text=part,
+        )
     if len(p.counts) == 1 and len(p.parts) == 1 and not p.charge and len(p.parts[0].items) == 1:
         symbol = next(iter(p.counts))
         if p.counts[symbol] == 1:
