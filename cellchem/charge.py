@@ -5,9 +5,11 @@ part (atoms and bracketed groups, as written) are split into consecutive runs,
 and each run must be a whole number of one catalog ion (so ``NH4NO3`` is
 NH4+ and NO3-, ``CH3COONa`` is acetate and Na+, ``Fe3O4`` is Fe2+, 2 Fe3+ and
 4 O2-). Among the readings whose charges sum to the formula's charge, the one
-chosen uses (in this order of preference) the fewest homonuclear ions (Hg2 2+,
-O2 2-, N3-: MnO2 is Mn4+ with oxide, not Mn2+ with peroxide), no mixed valence,
-and the fewest ions (NaHCO3 is Na+ and HCO3-, not Na+, H+ and CO3 2-).
+chosen uses (in this order of preference) the fewest homonuclear anions (O2 2-,
+S2 2-, N3-: SnS2 is Sn4+ with sulfide, not Sn2+ with disulfide), no mixed
+valence, and the fewest ions (NaHCO3 is Na+ and HCO3-, not Na+, H+ and CO3 2-;
+Hg2WO4 is Hg2 2+ and WO4 2-). Peroxide, superoxide and ozonide are read only
+beside s-block cations (MnO2 is Mn4+ with oxide).
 
 Formulas with no metal and no catalog ion reading (CO2, PCl5, C6H12O6) are
 molecular: their oxidation states follow the usual rules (F -1; metals of one
@@ -25,7 +27,7 @@ from functools import lru_cache
 from .elements import element
 from .errors import CellchemError, ChemistryError
 from .formula import Atom, Formula, Group, Item, Number, Part, as_formula, render_items
-from .ions import Ion, ions_in
+from .ions import Ion, catalog, counts_key, ions_in
 
 ELEMENT = "element"
 IONIC = "ionic"
@@ -116,17 +118,21 @@ def _compositions(n: int, k: int):
             yield (first,) + rest
 
 
-def _run_options(items: tuple[Item, ...], start: int, end: int, inside: bool, mixed: bool) -> list[_Option]:
+def _run_options(
+    items: tuple[Item, ...], start: int, end: int, inside: bool, mixed: bool, oxo: bool = True
+) -> list[_Option]:
     run = items[start:end]
     counts = _counts(run)
     options: list[_Option] = []
     for ion, k in ions_in(counts):
+        if not oxo and ion.is_homonuclear and ion.text in ("O2", "O3"):
+            continue
         options.append(
             _Option(
                 start,
                 end,
                 ion.charge * k,
-                (1 if ion.is_homonuclear else 0, 0, k),
+                (1 if ion.is_homonuclear and ion.charge < 0 else 0, 0, k),
                 (Share(ion.label, ion.charge, k, ion),),
             )
         )
@@ -167,7 +173,9 @@ Solution = tuple[tuple[int, int, int], tuple[_Option, ...]]
 
 
 @lru_cache(maxsize=16384)
-def _solutions(items: tuple[Item, ...], inside: bool, mixed: bool, whole: bool = True) -> dict[int, Solution]:
+def _solutions(
+    items: tuple[Item, ...], inside: bool, mixed: bool, whole: bool = True, oxo: bool = True
+) -> dict[int, Solution]:
     """For every reachable total charge, the best reading of ``items``.
 
     ``whole=False`` leaves out the readings of all the items as one ion, to
@@ -181,7 +189,7 @@ def _solutions(items: tuple[Item, ...], inside: bool, mixed: bool, whole: bool =
         for j in range(i + 1, n + 1):
             if not whole and i == 0 and j == n:
                 continue
-            options = _run_options(items, i, j, inside, mixed)
+            options = _run_options(items, i, j, inside, mixed, oxo)
             for charge, (score, path) in dp[i].items():
                 for opt in options:
                     c = charge + opt.charge
@@ -209,37 +217,67 @@ def _reach(items: tuple[Item, ...]) -> int:
 
 
 def _solve(items: tuple[Item, ...], target: int) -> Solution | None:
-    found = _solutions(items, False, False).get(target)
+    oxo = _allows_oxo_ions(_counts(items))
+    found = _solutions(items, False, False, True, oxo).get(target)
     if found is None:
-        found = _solutions(items, False, True).get(target)
+        found = _solutions(items, False, True, True, oxo).get(target)
     return found
 
 
-# Anions that do not stand with H+ alone in a formula with no metal: NH3 is not
-# N3- with 3 H+, nor H2O2 peroxide with 2 H+ (common practice).
+# Anions that do not stand with H+ alone: NH3 is not N3- with 3 H+, H2O2 not
+# peroxide with 2 H+, CH3OH not methanolate with H+ (common practice).
 _NOT_ACID_ANIONS = frozenset("O N C P Si B Ge As Sb H".split())
 
 
 def _acceptable_without_metal(path: tuple[_Option, ...]) -> bool:
-    for opt in path:
-        for share in opt.shares:
-            ion = share.ion
-            if ion is None:
-                continue
-            symbols = tuple(ion.formula.counts)
-            if (
-                ion.charge < 0
-                and len(symbols) == 1
-                and (symbols[0] in _NOT_ACID_ANIONS or (ion.is_homonuclear and symbols[0] == "O"))
-            ):
-                return False
-            if ion.charge > 0 and ion.is_monatomic and symbols[0] != "H":
-                return False
+    """For a formula with no element that forms a catalog cation: the ionic
+    reading stands unless its only cations are H+ and its anion is one that
+    does not make an acid with H+."""
+    shares = [share for opt in path for share in opt.shares if share.ion is not None]
+    cations = [s.ion for s in shares if s.charge > 0]
+    if any(ion is not None and ion.text != "H" for ion in cations):
+        return True
+    for share in shares:
+        ion = share.ion
+        if ion is None or ion.charge > 0:
+            continue
+        symbols = tuple(ion.formula.counts)
+        if len(symbols) == 1 and ((ion.is_monatomic and symbols[0] in _NOT_ACID_ANIONS) or symbols[0] == "O"):
+            return False
+        if ion.name.endswith("olate"):
+            return False
     return True
 
 
+@lru_cache(maxsize=1024)
+def _forms_cation(symbol: str) -> bool:
+    """True for an element with a monatomic cation in the catalog (other than H)."""
+    if symbol == "H":
+        return False
+    return element(symbol).is_metal or any(ion.charge > 0 for ion, _ in ions_in({symbol: 1}))
+
+
 def _has_metal(counts: dict[str, Number]) -> bool:
-    return any(element(s).is_metal for s in counts)
+    return any(_forms_cation(s) for s in counts)
+
+
+# Peroxide, superoxide and ozonide stand with the s-block cations (Na2O2, BaO2,
+# KO2, KO3), not with a transition metal (MnO4 is not Mn2+ and two superoxide
+# ions): common practice.
+_OXO_PARTNERS = frozenset("H Li Na K Rb Cs Fr Be Mg Ca Sr Ba Ra O".split())
+
+
+def _allows_oxo_ions(counts: dict[str, Number]) -> bool:
+    return all(s in _OXO_PARTNERS for s in counts)
+
+
+# Molecular readings with an odd number of electrons are radicals; only these
+# are substances a store holds (common practice).
+_STABLE_RADICALS = frozenset({(("N", 1), ("O", 1)), (("N", 1), ("O", 2)), (("Cl", 1), ("O", 2))})
+
+
+def _electrons(counts: dict[str, Number], charge: int) -> Number:
+    return sum(element(s).z * n for s, n in counts.items()) - charge
 
 
 # ---------------------------------------------------------------------------
@@ -260,6 +298,8 @@ def _state_range(symbol: str) -> tuple[int, int]:
         return (-2, 2)
     if symbol == "F":
         return (-1, 0)
+    if symbol in ("He", "Ne", "Ar"):
+        return (0, 0)
     if el.is_metal:
         return (0, 8)
     g = el.group or 0
@@ -268,10 +308,25 @@ def _state_range(symbol: str) -> tuple[int, int]:
     return (-4, 8)
 
 
+# H is -1 beside elements less electronegative than about 2.1 on the Pauling
+# scale (B2H6, SiH4, BH4-, AlH4-), +1 otherwise (CH4, NH3, PH3, H2S): common practice.
+_H_NEGATIVE_BELOW = 2.1
+
+
 def rule_states(counts: dict[str, Number], charge: int) -> dict[str, Fraction] | None:
     """Oxidation states of a species by the usual rules, or None when the rules
     give a value outside an element's range (see module doc). A state may be
-    a fraction: the mean over the atoms of that element."""
+    a fraction: the mean over the atoms of that element. Where oxygen at -2
+    leaves the last element out of range, one O-O (peroxido) pair at -1 each is
+    tried for an ion (peroxydisulfate S2O8 2-: S +6), never for a neutral
+    molecule."""
+    found = _rule_states(counts, charge, 0)
+    if found is None and charge and counts.get("O", 0) >= 2:
+        found = _rule_states(counts, charge, 1)
+    return found
+
+
+def _rule_states(counts: dict[str, Number], charge: int, peroxide_pairs: int) -> dict[str, Fraction] | None:
     unknown = [s for s in counts]
     states: dict[str, Fraction] = {}
     if len(unknown) == 1:
@@ -280,7 +335,7 @@ def rule_states(counts: dict[str, Number], charge: int) -> dict[str, Fraction] |
         lo, hi = _state_range(s)
         return {s: value} if lo <= value <= hi else None
 
-    def fix(symbol: str, value: int) -> None:
+    def fix(symbol: str, value: Fraction | int) -> None:
         if symbol in unknown and len(unknown) > 1:
             states[symbol] = Fraction(value)
             unknown.remove(symbol)
@@ -291,9 +346,11 @@ def rule_states(counts: dict[str, Number], charge: int) -> dict[str, Fraction] |
             single = _single_charge(s)
             if single is not None:
                 fix(s, single)
-    other_nonmetal = any(not element(s).is_metal and s != "H" for s in counts)
-    fix("H", 1 if other_nonmetal else -1)
-    fix("O", -2)
+    others = [element(s).electronegativity or 0.0 for s in counts if s != "H"]
+    fix("H", 1 if any(en >= _H_NEGATIVE_BELOW for en in others) else -1)
+    if "O" in unknown and len(unknown) > 1:
+        n_o = counts["O"]
+        fix("O", Fraction(-2 * n_o + 2 * peroxide_pairs, n_o) if peroxide_pairs else -2)
     while len(unknown) > 1:
         candidates = [s for s in unknown if not element(s).is_metal]
         if not candidates:
@@ -363,11 +420,13 @@ def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
             return _PartReading(
                 UNBALANCED, (), (), None, f"{render_items(part.items)} is {named}, not of charge {target:+d}"
             )
-    if solution is not None and (metal or _acceptable_without_metal(solution[1])):
+    whole_ion = target != 0 and solution is not None and len(_flatten(solution[1])) == 1
+    if solution is not None and (metal or whole_ion or _acceptable_without_metal(solution[1])):
         return _PartReading(IONIC, _flatten(solution[1]), solution[1])
     if not metal or adduct:
         states = rule_states(counts, target)
-        if states is not None:
+        odd = _electrons(counts, target) % 2 == 1 and counts_key(counts) not in _STABLE_RADICALS
+        if states is not None and not odd:
             return _PartReading(MOLECULAR, (), (), states)
     return _PartReading(UNBALANCED, (), (), None, _why_not(part, target))
 
@@ -388,7 +447,7 @@ def _why_not(part: Part, target: int) -> str:
         after = f" after '{before}'" if before else ""
         return f"no ion in the catalog matches '{rest}'{after}, so {text} cannot be split into ions"
     # closest reading: smallest |charge - target|
-    sols = {**_solutions(items, False, False)}
+    sols = {**_solutions(items, False, False, True, _allows_oxo_ions(_counts(items)))}
     charge = min(sols, key=lambda c: (abs(c - target), sols[c][0]))
     shares = _flatten(sols[charge][1])
     phrases = []
@@ -420,8 +479,14 @@ def _share_phrase(share: Share) -> str:
     return share.label if share.count == 1 else f"{share.count} {share.label}"
 
 
+def _cation_species(symbol: str) -> list[Ion]:
+    """Catalog cations made of this element alone (Hg2+ and Hg2 2+ for mercury)."""
+    return [ion for ion in catalog() if ion.charge > 0 and tuple(ion.formula.counts) == (symbol,)]
+
+
 def _explain_ionic(text: str, shares: tuple[Share, ...]) -> str:
-    body = " + ".join(_share_phrase(s) for s in shares if s.charge or s.ion)
+    ordered = [s for s in shares if s.charge > 0] + [s for s in shares if s.charge <= 0]
+    body = " + ".join(_share_phrase(s) for s in ordered if s.charge or s.ion)
     notes = []
     by_element: dict[str, set[int]] = {}
     for s in shares:
@@ -432,7 +497,7 @@ def _explain_ionic(text: str, shares: tuple[Share, ...]) -> str:
             notes.append(f"it holds the {ion.name} ion {ion.label}")
         if ion.is_monatomic and ion.charge > 0:
             symbol = next(iter(ion.formula.counts))
-            if len([i for i, _ in ions_in({symbol: 1}) if i.charge > 0]) > 1:
+            if len(_cation_species(symbol)) > 1:
                 by_element.setdefault(symbol, set()).add(ion.charge)
     for symbol, charges in by_element.items():
         name = element(symbol).name
@@ -542,12 +607,15 @@ def net_charge(formula: str | Formula) -> int:
     """The net charge of an ion or compound.
 
     The charge written in the formula when there is one (and it must be one
-    the formula can carry); else 0 for a formula that balances as neutral;
-    else the charge of the one catalog ion the formula is.
+    the formula can carry). With no charge written: 0 for an element, or for
+    a formula that balances as neutral and is no catalog ion; the charge of
+    the one catalog ion the formula is when it is not neutral (SO4 is
+    sulfate). A formula that is both (SO3: sulfur trioxide or sulfite) or
+    several ions (MnO4) is refused with the readings listed.
 
     Raises:
-        CellchemError: no charge is written and the formula is neither neutral
-            nor a single catalog ion, or several ions share its formula.
+        CellchemError: no charge is written and the formula is ambiguous, or
+            neither neutral nor a catalog ion.
 
     >>> net_charge("SO4 2-")
     -2
@@ -567,22 +635,29 @@ def net_charge(formula: str | Formula) -> int:
         return f.charge
     if len(f.counts) == 1 and len(f.parts) == 1:
         return 0  # an element, even when it shares its formula with an ion (O2, Hg2)
+    whole: list[Ion] = []
     if len(f.parts) == 1 and not f.has_unknown_count:
         whole = [ion for ion, k in ions_in(f.counts) if k == 1]
-        if len(whole) == 1:
-            return whole[0].charge
-        if len(whole) > 1:
-            listing = ", ".join(f"{ion.label} ({ion.name})" for ion in whole)
-            raise ChemistryError(
-                f"'{text}' has no charge written and is more than one ion: {listing}; write the charge",
-                text=text,
-                choices=tuple(ion.label for ion in whole),
-            )
-    result = charge_balance(f)
-    if result.balanced:
+    neutral = charge_balance(f)
+    if neutral.balanced and not whole:
         return 0
+    if not neutral.balanced and len(whole) == 1:
+        return whole[0].charge
+    if whole:
+        readings = ([f"neutral {text}"] if neutral.balanced else []) + [
+            f"{ion.label} ({ion.name})" for ion in whole
+        ]
+        raise ChemistryError(
+            f"'{text}' has no charge written and reads as more than one species: "
+            + ", ".join(readings[:-1])
+            + " or "
+            + readings[-1]
+            + "; write the charge",
+            text=text,
+            choices=(("0",) if neutral.balanced else ()) + tuple(ion.label for ion in whole),
+        )
     raise ChemistryError(
-        f"'{text}' has no charge written and is not neutral: {result.explanation}", text=text
+        f"'{text}' has no charge written and is not neutral: {neutral.explanation}", text=text
     )
 
 

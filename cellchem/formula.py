@@ -230,18 +230,22 @@ def _render_number(n: Number) -> str:
     return str(n)
 
 
-def render_items(items: tuple[Item, ...]) -> str:
-    """Canonical text of a run of items (no multiplier, no charge)."""
+def render_items(items: tuple[Item, ...], in_brackets: bool = False) -> str:
+    """Canonical text of a run of items (no multiplier, no charge). Inside a
+    coordination entity a polyatomic ligand keeps its parentheses even when
+    there is one of it ([Fe(CN)5(NO)], IUPAC 2005 IR-9.2.3.2)."""
     out = []
     for item in items:
         if isinstance(item, Atom):
             out.append(item.symbol + (str(item.count) if item.count != 1 else ""))
         elif item.bracket == "[":
-            out.append("[" + render_items(item.items) + "]" + (str(item.count) if item.count != 1 else ""))
-        elif item.count == 1:
+            inner = render_items(item.items, True)
+            out.append("[" + inner + "]" + (str(item.count) if item.count != 1 else ""))
+        elif item.count == 1 and not in_brackets:
             out.append(render_items(item.items))
         else:
-            out.append("(" + render_items(item.items) + ")" + str(item.count))
+            count = str(item.count) if item.count != 1 else ""
+            out.append("(" + render_items(item.items, in_brackets) + ")" + count)
     return "".join(out)
 
 
@@ -612,10 +616,12 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
     """'NH4+' (ammonium) against 'Fe3+' (iron(III)): a lone sign after a count.
 
     The digits before the sign are the count in one reading, and the last digit
-    is the charge in the other. A group in brackets ('[Fe(CN)6]4-') always
-    takes the charge reading. For an element, the reading that is an ion in
-    the catalog wins; when both or neither are, the input is refused with the
-    two readings, and the explicit ways to write each.
+    is the charge in the other. The reading that is an ion in the catalog wins
+    (NH4+, SO42-, C(NH2)3+). When neither is, a bracketed group
+    ('[Co(NH3)5Cl]2+') and a lone metal with one digit ('Ti4+') take the
+    charge reading;
+    otherwise, and when both are ions ('O2-': superoxide or oxide), the input
+    is refused with the two readings and the explicit ways to write each.
     """
     last_part = f.parts[-1]
     last = last_part.items[-1]
@@ -629,8 +635,6 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
     else:
         moved = Atom(last.symbol, new_count)
     as_charge = Formula((Part(last_part.items[:-1] + (moved,), 1),), sign * int(digits[-1]), text)
-    if isinstance(last, Group):
-        return as_charge
     from .ions import catalog_name
 
     known_count = catalog_name(f.counts, f.charge)
@@ -639,6 +643,13 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
         return f
     if known_charge and not known_count:
         return as_charge
+    if not known_count and not known_charge:
+        # Neither is a catalog ion: a bracketed group ('[Co(NH3)5Cl]2+') and a
+        # lone element ('Ti4+', never tetratitanium(1+)) take the charge reading.
+        if isinstance(last, Group) or (
+            len(f.counts) == 1 and new_count == 1 and f.charge > 0 and _is_metal(last.symbol)
+        ):
+            return as_charge
     body_a = render_items(last_part.items)
     body_b = render_items(as_charge.parts[0].items)
     charge_a = _render_charge(f.charge)
@@ -646,12 +657,22 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
     name_a = f" ({known_count})" if known_count else ""
     name_b = f" ({known_charge})" if known_charge else ""
     raise FormulaError(
-        f"'{text}' is ambiguous: it reads as {body_a} with charge {charge_a[1:]}{name_a}"
-        f" or as {body_b} with charge {charge_b[1:]}{name_b}; write '{body_a}{charge_a}'"
-        f" or '{body_b}{charge_b}'",
+        f"'{text}' is ambiguous: it reads as {body_a} with charge {_charge_words(f.charge)}{name_a}"
+        f" or as {body_b} with charge {_charge_words(as_charge.charge)}{name_b};"
+        f" write '{body_a}{charge_a}' or '{body_b}{charge_b}'",
         text=text,
         choices=(body_a + charge_a, body_b + charge_b),
     )
+
+
+def _is_metal(symbol: str) -> bool:
+    from .elements import element
+
+    return element(symbol).is_metal
+
+
+def _charge_words(charge: int) -> str:
+    return f"{abs(charge)}{'+' if charge > 0 else '-'}"
 
 
 _DECIMAL_COUNT = re.compile(r"(?<![\d.])(?:1|0\d*)\.\d")

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, field
-from functools import cache
+from functools import cache, cached_property
 from math import gcd
 
 from .elements import element, is_symbol
@@ -71,14 +71,24 @@ class Ion:
         """Two or more atoms of one element: Hg2 2+, O2 2-, N3-, ..."""
         return len(self.formula.counts) == 1 and self.atoms > 1
 
-    @property
+    @cached_property
     def label(self) -> str:
-        """How the ion is written in messages: ``Na+``, ``Fe3+``, ``SO4 2-``."""
+        """How the ion is written in messages: ``Na+``, ``Fe3+``, ``SO4 2-``;
+        with a caret (``O^2-``, ``O2^-``, ``NH2^-``) where the plain form would
+        read two ways. Every label reads back as this ion."""
         magnitude = "" if abs(self.charge) == 1 else str(abs(self.charge))
         sign = "+" if self.charge > 0 else "-"
         if self.is_monatomic or self.is_complex or magnitude == "":
-            return self.text + magnitude + sign
-        return f"{self.text} {magnitude}{sign}"
+            plain = self.text + magnitude + sign
+        else:
+            plain = f"{self.text} {magnitude}{sign}"
+        try:
+            back = parse_formula(plain)
+            if back.charge == self.charge and counts_key(back.counts) == self.key:
+                return plain
+        except CellchemError:
+            pass
+        return f"{self.text}^{magnitude}{sign}"
 
     @property
     def key(self) -> CountsKey:
@@ -183,7 +193,7 @@ def normalise_name(text: str) -> str:
         n = int(m.group(1))
         return "(" + _ROMAN[n].casefold() + ")" if n in _ROMAN else m.group(0)
 
-    name = re.sub(r"\((\d)\+?\)", roman, name)
+    name = re.sub(r"\(\+?(\d)\+?\)", roman, name)
     return name
 
 
@@ -256,8 +266,8 @@ def find_ion(text: str, role: str | None = None) -> Ion:
         if len(named) == 1:
             return named[0]
         raise UnknownIonError(
-            f"'{raw}' names more than one ion: {_choices_text(named)}; give the charge"
-            " (a Stock number such as 'iron(III)' or a formula such as 'Fe3+')",
+            f"'{raw}' names more than one ion: {_choices_text(named)}; say which"
+            f" (for example '{named[0].name}' or '{named[0].label}')",
             text=raw,
             choices=tuple(i.label for i in named),
         )
@@ -268,7 +278,7 @@ def find_ion(text: str, role: str | None = None) -> Ion:
     except CellchemError:
         el = None
     if el is not None:
-        own = tuple(ion for ion in catalog() if ion.is_monatomic and ion.formula.counts.get(el.symbol) == 1)
+        own = tuple(ion for ion in catalog() if tuple(ion.formula.counts) == (el.symbol,))
         own = pick(own)
         if len(own) > 1:
             raise UnknownIonError(
@@ -282,10 +292,29 @@ def find_ion(text: str, role: str | None = None) -> Ion:
             raise UnknownIonError(
                 f"'{raw}' is the element; its ion is {ion.name} ({ion.label})", text=raw, choices=(ion.label,)
             )
+    # an element name with a Stock number the catalog does not hold: 'iron(IV)'
+    stock = re.fullmatch(r"([a-z]+)\((i{1,3}|iv|v|vi{0,3}|ix|x)\)", normalise_name(raw))
+    if stock:
+        try:
+            metal = element(stock.group(1))
+        except CellchemError:
+            metal = None
+        if metal is not None:
+            own = tuple(
+                ion for ion in catalog() if tuple(ion.formula.counts) == (metal.symbol,) and ion.charge > 0
+            )
+            held = f"; the catalog has {_choices_text(own)}" if own else ""
+            raise UnknownIonError(
+                f"'{raw}' is not an ion in the catalog{held} (see DEVELOPERS.md to add one)",
+                text=raw,
+                choices=tuple(i.label for i in own),
+            )
     # a formula
     try:
         formula = parse_formula(raw)
     except CellchemError as exc:
+        if exc.choices and "ambiguous" in str(exc):
+            raise UnknownIonError(str(exc), text=raw, choices=exc.choices) from exc
         raise UnknownIonError(
             f"'{raw}' is neither an ion name cellchem knows nor a formula ({exc})", text=raw
         ) from exc

@@ -47,9 +47,20 @@ RAW_ROWS = {row["symbol"]: row for row in _read_csv(ELEMENTS_CSV)}
 # (Prohaska et al. 2022, Table 1), with their conventional values from the
 # same report. Typed from memory, checked against the reference CSV.
 INTERVAL_ELEMENTS = {
-    "H": 1.008, "Li": 6.94, "B": 10.81, "C": 12.011, "N": 14.007,
-    "O": 15.999, "Mg": 24.305, "Si": 28.085, "S": 32.06, "Cl": 35.45,
-    "Ar": 39.95, "Br": 79.904, "Tl": 204.38, "Pb": 207.2,
+    "H": 1.008,
+    "Li": 6.94,
+    "B": 10.81,
+    "C": 12.011,
+    "N": 14.007,
+    "O": 15.999,
+    "Mg": 24.305,
+    "Si": 28.085,
+    "S": 32.06,
+    "Cl": 35.45,
+    "Ar": 39.95,
+    "Br": 79.904,
+    "Tl": 204.38,
+    "Pb": 207.2,
 }
 
 # Conventional values that lie just outside their interval: the conventional
@@ -64,7 +75,8 @@ CONVENTIONAL_OUTSIDE_INTERVAL = {
 # Elements with no standard atomic weight in the CIAAW 2021 table: Tc, Pm, and
 # Po-Ac, Np-Og (Bi, Th, Pa and U do have one). Common practice / CIAAW 2021.
 NO_STANDARD_WEIGHT = {"Tc", "Pm", "Po", "At", "Rn", "Fr", "Ra", "Ac"} | {
-    sym for sym in SYMBOLS[92:118]  # Z 93..118
+    sym
+    for sym in SYMBOLS[92:118]  # Z 93..118
 }
 
 # The three CIAAW 2024 revisions (CIAAW 2024 announcement).
@@ -151,7 +163,7 @@ PERIODICTABLE_EXPECTED_DIFF = {
 
 # Edition differences are small; a listed difference larger than this would
 # mean the explanation no longer covers it.
-MAX_EXPLAINED_DIFF_WEIGHT = 0.01   # atomic weights (2021 vs 2024)
+MAX_EXPLAINED_DIFF_WEIGHT = 0.01  # atomic weights (2021 vs 2024)
 MAX_EXPLAINED_DIFF_MASS_NUMBER = 10  # choice of isotope for Z >= 103 and Tc
 
 
@@ -174,13 +186,11 @@ def test_against_periodictable(symbol, periodictable_elements):
     if abs(ours - theirs) <= PERIODICTABLE_TOLERANCE:
         return  # agreement (also for a listed element once the oracle catches up)
     assert symbol in PERIODICTABLE_EXPECTED_DIFF, (
-        f"{symbol}: cellchem {ours!r} vs periodictable {theirs!r}, "
-        "not an explained difference"
+        f"{symbol}: cellchem {ours!r} vs periodictable {theirs!r}, not an explained difference"
     )
     recorded, reason = PERIODICTABLE_EXPECTED_DIFF[symbol]
     assert theirs == pytest.approx(recorded, abs=1e-9), (
-        f"{symbol}: periodictable now gives {theirs!r}, not {recorded!r}; "
-        f"recheck the explanation: {reason}"
+        f"{symbol}: periodictable now gives {theirs!r}, not {recorded!r}; recheck the explanation: {reason}"
     )
     assert abs(ours - theirs) <= _explained_bound(symbol), reason
 
@@ -222,9 +232,18 @@ MOLMASS_OLDER_EDITION = {
 # the 2017 interval [39.792, 39.963]; conventional value now 39.95.
 # (Li 6.94 and Pb 207.2 agree with the conventional value and are not listed.)
 MOLMASS_INTERVAL_MEAN = {
-    "H": 1.007941, "B": 10.811, "C": 12.01074, "N": 14.006703,
-    "O": 15.999405, "Mg": 24.3051, "Si": 28.0855, "S": 32.0648,
-    "Cl": 35.4529, "Ar": 39.948, "Br": 79.9035, "Tl": 204.3834,
+    "H": 1.007941,
+    "B": 10.811,
+    "C": 12.01074,
+    "N": 14.006703,
+    "O": 15.999405,
+    "Mg": 24.3051,
+    "Si": 28.0855,
+    "S": 32.0648,
+    "Cl": 35.4529,
+    "Ar": 39.948,
+    "Br": 79.9035,
+    "Tl": 204.3834,
 }
 
 # Elements with no standard atomic weight: molmass gives one isotope's mass.
@@ -288,9 +307,7 @@ def test_against_molmass(symbol, molmass_elements):
         if symbol not in MOLMASS_OTHER_ISOTOPE:
             assert isotope == ours
     else:
-        pytest.fail(
-            f"{symbol}: cellchem {ours!r} vs molmass {theirs!r}, not an explained difference"
-        )
+        pytest.fail(f"{symbol}: cellchem {ours!r} vs molmass {theirs!r}, not an explained difference")
 
 
 # Electronegativity, Pauling scale (cellchem: common compilations, from
@@ -314,8 +331,7 @@ def test_electronegativity_against_molmass(symbol, molmass_elements):
         pytest.skip(f"molmass has no entry for {symbol}")
     theirs = float(molmass_elements[symbol].eleneg) or None
     ours = element(symbol).electronegativity
-    if ours == theirs or (ours is not None and theirs is not None
-                          and abs(ours - theirs) <= 1e-9):
+    if ours == theirs or (ours is not None and theirs is not None and abs(ours - theirs) <= 1e-9):
         return
     assert symbol in MOLMASS_ELECTRONEGATIVITY_DIFF, (
         f"{symbol}: cellchem {ours!r} vs molmass {theirs!r}, not explained"
@@ -369,11 +385,23 @@ def test_iupac_spellings_and_variants():
 @pytest.mark.parametrize(
     "key, symbol",
     [
-        ("sodium", "Na"), ("Sodium", "Na"), ("aluminium", "Al"),
-        ("aluminum", "Al"), ("Aluminum", "Al"), ("ALUMINUM", "Al"),
-        ("cesium", "Cs"), ("Caesium", "Cs"), ("sulphur", "S"), ("Sulfur", "S"),
-        ("Na", "Na"), ("Co", "Co"), ("C", "C"), ("O", "O"), (11, "Na"),
-        (1, "H"), (118, "Og"),
+        ("sodium", "Na"),
+        ("Sodium", "Na"),
+        ("aluminium", "Al"),
+        ("aluminum", "Al"),
+        ("Aluminum", "Al"),
+        ("ALUMINUM", "Al"),
+        ("cesium", "Cs"),
+        ("Caesium", "Cs"),
+        ("sulphur", "S"),
+        ("Sulfur", "S"),
+        ("Na", "Na"),
+        ("Co", "Co"),
+        ("C", "C"),
+        ("O", "O"),
+        (11, "Na"),
+        (1, "H"),
+        (118, "Og"),
     ],
     ids=lambda v: str(v),
 )
@@ -414,9 +442,20 @@ def test_group_and_period():
             assert e.group is None, e.symbol
         else:
             assert e.group is not None and 1 <= e.group <= 18, e.symbol
-    spot = {"H": (1, 1), "He": (18, 1), "B": (13, 2), "Na": (1, 3),
-            "Fe": (8, 4), "La": (3, 6), "Hf": (4, 6), "Au": (11, 6),
-            "Ac": (3, 7), "Og": (18, 7), "Ce": (None, 6), "U": (None, 7)}
+    spot = {
+        "H": (1, 1),
+        "He": (18, 1),
+        "B": (13, 2),
+        "Na": (1, 3),
+        "Fe": (8, 4),
+        "La": (3, 6),
+        "Hf": (4, 6),
+        "Au": (11, 6),
+        "Ac": (3, 7),
+        "Og": (18, 7),
+        "Ce": (None, 6),
+        "U": (None, 7),
+    }
     for sym, (group, period) in spot.items():
         assert (element(sym).group, element(sym).period) == (group, period), sym
 
@@ -438,12 +477,9 @@ def _assert_conventional_in_interval(symbol, conventional, low, high):
         # value (the reference tolerance)
         rounding = float(REFERENCE_BY_SYMBOL[symbol]["tolerance"])
         assert not low <= conventional <= high, (
-            f"{symbol} is now inside its interval; drop it from "
-            "CONVENTIONAL_OUTSIDE_INTERVAL"
+            f"{symbol} is now inside its interval; drop it from CONVENTIONAL_OUTSIDE_INTERVAL"
         )
-        assert low - rounding <= conventional <= high + rounding, (
-            CONVENTIONAL_OUTSIDE_INTERVAL[symbol]
-        )
+        assert low - rounding <= conventional <= high + rounding, CONVENTIONAL_OUTSIDE_INTERVAL[symbol]
     else:
         assert low <= conventional <= high, f"{symbol}: {conventional} not in [{low}, {high}]"
 
@@ -461,9 +497,7 @@ def test_interval_elements(symbol):
     assert e.atomic_weight == pytest.approx(INTERVAL_ELEMENTS[symbol], abs=1e-12)
 
 
-STANDARD_SYMBOLS = [
-    s for s in SYMBOLS if s not in INTERVAL_ELEMENTS and s not in NO_STANDARD_WEIGHT
-]
+STANDARD_SYMBOLS = [s for s in SYMBOLS if s not in INTERVAL_ELEMENTS and s not in NO_STANDARD_WEIGHT]
 
 
 @pytest.mark.parametrize("symbol", STANDARD_SYMBOLS, ids=STANDARD_SYMBOLS)
@@ -491,9 +525,18 @@ def test_mass_number_elements(symbol):
 def test_csv_columns_match_weight_kind(symbol):
     row = RAW_ROWS[symbol]
     e = element(symbol)
-    filled = {k for k in ("standard_value", "uncertainty", "interval_low",
-                          "interval_high", "conventional_value", "mass_number")
-              if row[k].strip()}
+    filled = {
+        k
+        for k in (
+            "standard_value",
+            "uncertainty",
+            "interval_low",
+            "interval_high",
+            "conventional_value",
+            "mass_number",
+        )
+        if row[k].strip()
+    }
     expected = {
         "standard": {"standard_value", "uncertainty"},
         "conventional": {"interval_low", "interval_high", "conventional_value"},

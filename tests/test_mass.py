@@ -104,8 +104,7 @@ def _periodictable_text(formula: str) -> str:
     'CaSO4+0.5H2O' all parse) and has no square brackets, so '[...]' becomes
     '(...)'."""
     return "+".join(
-        (f"{n:g}" if n != 1 else "") + body.replace("[", "(").replace("]", ")")
-        for n, body in _parts(formula)
+        (f"{n:g}" if n != 1 else "") + body.replace("[", "(").replace("]", ")") for n, body in _parts(formula)
     )
 
 
@@ -292,9 +291,10 @@ def test_composition_percent_textbook(formula, symbol, percent, source):
 
 
 def test_composition_unknown_water_refused():
-    with pytest.raises(CellchemError, match=re.escape(
-        "the water count in 'Na2CO3·xH2O' is unknown, so its composition cannot be given"
-    )):
+    with pytest.raises(
+        CellchemError,
+        match=re.escape("the water count in 'Na2CO3·xH2O' is unknown, so its composition cannot be given"),
+    ):
         composition("Na2CO3·xH2O")
 
 
@@ -313,7 +313,13 @@ MASS_FRACTIONS = [
     ("Al2(SO4)3", "SO4", 84.23, 0.01, "textbook worked example, sulfate in aluminium sulfate (from memory)"),
     ("(NH4)2SO4", "NH4", 27.30, 0.01, "textbook worked example, ammonium in ammonium sulfate (from memory)"),
     ("(NH4)2SO4", "N", 21.0, 0.5, "fertiliser labels: ammonium sulfate 21-0-0 (common practice)"),
-    ("NH4NO3", "N", 35.0, 0.05, "textbook; fertiliser practice: pure ammonium nitrate 35 % N (common practice)"),
+    (
+        "NH4NO3",
+        "N",
+        35.0,
+        0.05,
+        "textbook; fertiliser practice: pure ammonium nitrate 35 % N (common practice)",
+    ),
     ("KNO3", "N", 13.85, 0.01, "textbook: nitrogen in potassium nitrate (from memory)"),
     ("NH4Cl", "NH4", 33.72, 0.01, "textbook worked example (from memory)"),
     ("MgSO4·7H2O", "H2O", 51.17, 0.01, "textbook: water in Epsom salt (from memory)"),
@@ -321,7 +327,13 @@ MASS_FRACTIONS = [
     ("CaSO4·2H2O", "H2O", 20.93, 0.01, "textbook: water in gypsum (from memory)"),
     ("CaSO4·0.5H2O", "H2O", 6.21, 0.01, "textbook: water in plaster of Paris (from memory)"),
     ("Na2B4O7·10H2O", "H2O", 47.24, 0.01, "textbook: water in borax (from memory)"),
-    ("FeSO4·7H2O", "Fe", 20.0, 0.5, "supplement labels: ferrous sulfate 325 mg gives 65 mg iron (common practice)"),
+    (
+        "FeSO4·7H2O",
+        "Fe",
+        20.0,
+        0.5,
+        "supplement labels: ferrous sulfate 325 mg gives 65 mg iron (common practice)",
+    ),
     ("(NH4)2Fe(SO4)2·6H2O", "Fe", 14.24, 0.01, "textbook: iron in Mohr's salt (from memory)"),
     ("KMnO4", "Mn", 34.76, 0.01, "textbook worked example (from memory)"),
     ("CaCO3", "Ca", 40.0, 0.5, "supplement labels: calcium carbonate is 40 % calcium (common practice)"),
@@ -398,10 +410,13 @@ def test_mass_fraction_refusals(formula, part, message):
 
 
 def test_molar_mass_unknown_water_refused():
-    with pytest.raises(CellchemError, match=re.escape(
-        "the water count in 'Na2CO3·xH2O' is unknown, so its molar mass cannot be given;"
-        " write the number of waters in place of 'x', or the anhydrous 'Na2CO3'"
-    )):
+    with pytest.raises(
+        CellchemError,
+        match=re.escape(
+            "the water count in 'Na2CO3·xH2O' is unknown, so its molar mass cannot be given;"
+            " write the number of waters in place of 'x', or the anhydrous 'Na2CO3'"
+        ),
+    ):
         molar_mass("Na2CO3·xH2O")
 
 

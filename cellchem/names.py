@@ -1,0 +1,1506 @@
+"""Inorganic names both ways: name -> formula and formula -> name.
+
+Follows the IUPAC 2005 recommendations (Nomenclature of Inorganic Chemistry,
+IR-5 compositional names, IR-8 acids, IR-9 coordination compounds) on top of
+the ion catalog and the formula engine. Names are read as stores and
+suppliers write them: any case, British and American spellings, legacy
+-ous/-ic names, trade forms (bicarbonate), trivial names (borax), catalogue
+inversions ("sulfate, copper(II), pentahydrate"), Stock numbers with a space,
+in either case, or as Arabic digits or charge numbers, and grade, purity,
+form and concentration words, which are set aside as qualifiers.
+
+Names that leave a variable metal's charge open ("iron chloride") and names
+cellchem does not know (organic names, mixtures, product codes) are refused
+with a message that says why; for the first kind the message lists the
+candidates with their formulas.
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+from dataclasses import dataclass
+from fractions import Fraction
+from functools import cache, lru_cache
+from itertools import product
+from math import gcd
+
+import pyparsing as pp
+
+from .charge import charge_balance
+from .elements import element, symbols
+from .errors import CellchemError
+from .formula import Atom, Formula, Group, Item, Number, as_formula, parse_formula, render_items
+from .ions import Ion, catalog, counts_key, ion_term, ions_in, lookup
+from .tables import read_table
+
+# ---------------------------------------------------------------------------
+# Results
+# ---------------------------------------------------------------------------
+
+
+class NameError_(CellchemError):
+    """A name that cannot be read, or a formula that cannot be named."""
+
+
+@dataclass(frozen=True)
+class Component:
+    """One ion or element of a name, as read.
+
+    Attributes:
+        role: ``'cation'``, ``'anion'`` or ``'element'`` (of a molecular compound).
+        name: the name cellchem writes for it (``'iron(III)'``, ``'sulfate'``).
+        formula: its formula without charge (``'Fe'``, ``'SO4'``).
+        charge: its charge (0 for an element of a molecular compound).
+        count: how many per formula unit.
+    """
+
+    role: str
+    name: str
+    formula: str
+    charge: int
+    count: Number
+
+
+@dataclass(frozen=True)
+class Qualifier:
+    """A word or phrase set aside from a name: ``kind`` is one of grade,
+    form, state, hydrate, purity, concentration, basicity; ``text`` is as found."""
+
+    kind: str
+    text: str
+
+
+@dataclass(frozen=True)
+class NameReading:
+    """What ``read_name`` made of a name.
+
+    Attributes:
+        text: the input.
+        compound: the compound part, as read after the qualifiers were set aside.
+        kind: ``'salt'``, ``'acid'``, ``'molecular'``, ``'element'`` or ``'trivial'``.
+        formula: the canonical formula.
+        cations, anions: the ions with charges and counts (empty for elements
+            and molecular compounds, whose parts are in ``elements``).
+        elements: for molecular compounds and elements, the elements with counts.
+        water: water of crystallisation per formula unit (0 none, None unknown).
+        qualifiers: every qualifier found and set aside.
+        forms: the legacy, regional, trivial or catalogue forms used, in words.
+    """
+
+    text: str
+    compound: str
+    kind: str
+    formula: str
+    cations: tuple[Component, ...] = ()
+    anions: tuple[Component, ...] = ()
+    elements: tuple[Component, ...] = ()
+    water: Number | None = 0
+    qualifiers: tuple[Qualifier, ...] = ()
+    forms: tuple[str, ...] = ()
+
+
+# ---------------------------------------------------------------------------
+# Reference tables
+# ---------------------------------------------------------------------------
+
+
+@cache
+def _prefixes() -> tuple[dict[int, str], dict[int, str]]:
+    simple: dict[int, str] = {}
+    complex_: dict[int, str] = {}
+    for row in read_table("prefixes.csv"):
+        n = int(row["number"])
+        simple[n] = row["simple"]
+        if row.get("complex"):
+            complex_[n] = row["complex"]
+    return simple, complex_
+
+
+@cache
+def _prefix_values() -> list[tuple[str, int]]:
+    """(prefix, number), longest first, for reading; includes the elided
+    forms before a vowel (mon-, tetr-, pent-, hex-, ...)."""
+    simple, _ = _prefixes()
+    out: dict[str, int] = {}
+    for n, p in simple.items():
+        if n == 1 and p in ("", "-"):
+            continue
+        out[p] = n
+    return sorted(out.items(), key=lambda kv: -len(kv[0]))
+
+
+@cache
+def _complex_prefix_values() -> dict[str, int]:
+    """bis 2, tris 3, tetrakis 4, ... (IUPAC 2005 Table IV)."""
+    _, complex_ = _prefixes()
+    return {p: n for n, p in complex_.items() if p}
+
+
+@cache
+def _hydrate_words() -> dict[str, Number | None]:
+    """Hydrate words and their water counts (None for an unknown count)."""
+    table: dict[str, Number | None] = {}
+    for row in read_table("hydrate_words.csv"):
+        if row["count"].strip() in ("x", "n"):
+            table[row["word"].casefold()] = None
+            continue
+        count = Fraction(row["count"])
+        table[row["word"].casefold()] = int(count) if count.denominator == 1 else count
+    return table
+
+
+@cache
+def _hydrate_names() -> dict[Number | None, str]:
+    names: dict[Number | None, str] = {}
+    for word, count in _hydrate_words().items():
+        names.setdefault(count, word)
+    return names
+
+
+@cache
+def _ligands() -> tuple[dict[str, tuple[Formula, int, str]], dict[tuple, tuple[str, int]]]:
+    """By name (and older names): (formula, charge, name); by counts key: (name, charge)."""
+    by_name: dict[str, tuple[Formula, int, str]] = {}
+    by_key: dict[tuple, tuple[str, int]] = {}
+    for row in read_table("ligands.csv"):
+        f = parse_formula(row["formula"])
+        charge = int(row["charge"])
+        name = row["name"].casefold()
+        by_name[name] = (f, charge, row["name"])
+        for other in row.get("other_names", "").split("|"):
+            if other.strip():
+                by_name.setdefault(other.strip().casefold(), (f, charge, row["name"]))
+        if row.get("abbreviation"):
+            by_name.setdefault(row["abbreviation"].strip().casefold(), (f, charge, row["name"]))
+        by_key.setdefault(counts_key(f.counts), (row["name"], charge))
+    return by_name, by_key
+
+
+@cache
+def _ate_names() -> tuple[dict[str, str], dict[str, str]]:
+    """symbol -> '-ate' name of the metal in a complex anion, and the reverse."""
+    forward: dict[str, str] = {}
+    back: dict[str, str] = {}
+    for row in read_table("metal_anion_names.csv"):
+        forward[row["symbol"]] = row["ate_name"]
+        back[row["ate_name"].casefold()] = row["symbol"]
+        for other in row.get("other_names", "").split("|"):
+            if other.strip():
+                back.setdefault(other.strip().casefold(), row["symbol"])
+    return forward, back
+
+
+@cache
+def _acids() -> tuple[dict[str, str], dict[tuple, str]]:
+    """name -> formula text; counts key -> name."""
+    by_name: dict[str, str] = {}
+    by_key: dict[tuple, str] = {}
+    for row in read_table("acids.csv"):
+        by_name[_fold(row["name"])] = row["formula"]
+        for other in row.get("other_names", "").split("|"):
+            if other.strip():
+                by_name.setdefault(_fold(other), row["formula"])
+        key = counts_key(parse_formula(row["formula"]).counts)
+        by_key.setdefault(key, row["name"])
+    return by_name, by_key
+
+
+@cache
+def _trivial() -> dict[str, tuple[str, str]]:
+    """trivial name -> (formula text, the name as the table writes it)."""
+    table: dict[str, tuple[str, str]] = {}
+    for row in read_table("trivial_names.csv"):
+        table[_fold(row["name"])] = (row["formula"], row["name"])
+        for other in row.get("other_names", "").split("|"):
+            if other.strip():
+                table.setdefault(_fold(other), (row["formula"], row["name"]))
+    return table
+
+
+@cache
+def _named() -> tuple[dict[str, str], dict[tuple, str]]:
+    """Established names the rules do not give (water, ammonia, calcium carbide):
+    name -> formula, and formula counts key -> the name cellchem writes."""
+    by_name: dict[str, str] = {}
+    by_key: dict[tuple, str] = {}
+    for row in read_table("named_compounds.csv"):
+        by_name[_fold(row["name"])] = row["formula"]
+        for other in row.get("other_names", "").split("|"):
+            if other.strip():
+                by_name.setdefault(_fold(other), row["formula"])
+        if row.get("write", "yes") != "no":
+            by_key.setdefault(_formula_key(row["formula"]), row["name"])
+    return by_name, by_key
+
+
+@cache
+def _qualifier_phrases() -> list[tuple[re.Pattern[str], str]]:
+    rows = sorted(read_table("qualifiers.csv"), key=lambda r: -len(r["phrase"]))
+    out = []
+    for row in rows:
+        phrase = _fold(row["phrase"])
+        if not phrase:
+            continue
+        pattern = re.compile(r"(?<![\w])" + re.escape(phrase) + r"(?![\w])")
+        out.append((pattern, row["kind"]))
+    return out
+
+
+def _formula_key(text: str) -> tuple:
+    f = parse_formula(text)
+    return (counts_key(f.counts), f.water)
+
+
+# ---------------------------------------------------------------------------
+# Normalising a name
+# ---------------------------------------------------------------------------
+
+_QUOTES = str.maketrans({"’": "'", "‘": "'", "ʼ": "'", "′": "'", "`": "'", "´": "'"})
+_DASHES = "‐‑‒–−"
+
+
+def _fold(text: str) -> str:
+    """Case-fold, NFKC, plain quotes and hyphens, single spaces, IUPAC spelling."""
+    s = unicodedata.normalize("NFKC", text).translate(_QUOTES)
+    for d in _DASHES:
+        s = s.replace(d, "-")
+    s = s.replace("\u00a0", " ").casefold()
+    s = re.sub(r"sulph", "sulf", s)
+    s = re.sub(r"\baluminum", "aluminium", s)
+    s = re.sub(r"\bcesium", "caesium", s)
+    s = re.sub(r"\s+", " ", s).strip()
+    return s
+
+
+def _spelling_forms(text: str) -> list[str]:
+    low = unicodedata.normalize("NFKC", text).casefold()
+    forms = []
+    if "sulph" in low:
+        forms.append("British spelling 'sulph-'")
+    if re.search(r"\baluminum", low):
+        forms.append("American spelling 'aluminum'")
+    if re.search(r"\bcesium", low):
+        forms.append("American spelling 'cesium'")
+    return forms
+
+
+_ROMAN_VALUES = {"i": 1, "ii": 2, "iii": 3, "iv": 4, "v": 5, "vi": 6, "vii": 7, "viii": 8}
+_ROMAN = {v: k.upper() for k, v in _ROMAN_VALUES.items()}
+
+
+def _stock(s: str) -> tuple[str, list[str]]:
+    """Write Stock numbers as '(iii)': join a space before '(', turn Arabic
+    digits '(3)' and charge numbers '(3+)' of cations into Roman numerals."""
+    forms = []
+    if re.search(r"\s\((?:[ivx]+|\d\+?)\)", s):
+        forms.append("Stock number written with a space")
+    s = re.sub(r"\s+\(", "(", s)
+    s = re.sub(r"\(\s+", "(", s)
+    s = re.sub(r"\s+\)", ")", s)
+
+    def arabic(m: re.Match[str]) -> str:
+        n = int(m.group(1))
+        if n in _ROMAN:
+            forms.append("charge number" if m.group(2) else "Arabic Stock number")
+            return "(" + _ROMAN[n].lower() + ")"
+        return m.group(0)
+
+    s = re.sub(r"(?<=[a-z])\((\d)(\+?)\)", arabic, s)
+    return s, forms
+
+
+# ---------------------------------------------------------------------------
+# Qualifiers and hydrates
+# ---------------------------------------------------------------------------
+
+_CONCENTRATION = re.compile(
+    r"(?<![\w.])\d+(?:[.,]\d+)?\s*"
+    r"(?:mol\s*/\s*l|mol\s*l-1|mol·l-1|mol\s*dm-3|mol\s*/\s*dm3|mol\s*/\s*kg|mmol\s*/\s*l|g\s*/\s*l|mg\s*/\s*l|"
+    r"ppm|%\s*\(?\s*(?:w/v|w/w|v/v|m/v|m/m|wt)\s*\)?|m(?![\w])|mm(?![\w])|n(?![\w]))"
+)
+_PURITY = re.compile(
+    r"(?:(?:min\.?|minimum|assay|purity|approx\.?|ca\.?)\s*)?(?:≥|>=|>|≤|<=|<|~)?\s*\d+(?:[.,]\d+)?\s*%(?:\s*min\.?)?"
+)
+_HYDRATE_NUMBER = re.compile(r"(?<![\w])(\d+(?:[.,]\d+)?|x|n)\s*-?\s*hydrate(?![\w])")
+_HYDRATE_FORMULA = re.compile(
+    r"(?:[·•∙⋅*.]\s*|(?<![\w])(?=\d|x\s*h2o|n\s*h2o))(\d+(?:[.,]\d+)?|x|n|½)?\s*h2o(?![\w])"
+)
+
+
+def _number(text: str) -> Number | None:
+    if text in ("x", "n"):
+        return None
+    if text == "½":
+        return Fraction(1, 2)
+    value = Fraction(text.replace(",", "."))
+    return int(value) if value.denominator == 1 else value
+
+
+def _take(pattern: re.Pattern[str], s: str, kind: str, found: list[Qualifier]) -> str:
+    def keep(m: re.Match[str]) -> str:
+        found.append(Qualifier(kind, m.group(0).strip()))
+        return " "
+
+    return pattern.sub(keep, s)
+
+
+def _set_aside(s: str) -> tuple[str, list[Qualifier], Number | str | None]:
+    """Remove qualifiers and the hydrate statement. Returns the rest, the
+    qualifiers, and the water: a count, None for unknown, '' if not stated."""
+    found: list[Qualifier] = []
+    water: Number | str | None = ""
+    s = _take(_CONCENTRATION, s, "concentration", found)
+    s = _take(_PURITY, s, "purity", found)
+
+    m = _HYDRATE_FORMULA.search(s)
+    if m:
+        water = _number(m.group(1)) if m.group(1) else 1
+        found.append(Qualifier("hydrate", m.group(0).strip()))
+        s = s[: m.start()] + " " + s[m.end() :]
+    m = _HYDRATE_NUMBER.search(s)
+    if m:
+        water = _number(m.group(1))
+        found.append(Qualifier("hydrate", m.group(0).strip()))
+        s = s[: m.start()] + " " + s[m.end() :]
+    for word, count in sorted(_hydrate_words().items(), key=lambda kv: -len(kv[0])):
+        pattern = re.compile(r"(?<![\w])" + re.escape(word) + r"(?![\w])")
+        if pattern.search(s):
+            water = count
+            found.append(Qualifier("hydrate", word))
+            s = pattern.sub(" ", s, count=1)
+            break
+    for pattern, kind in _qualifier_phrases():
+        if pattern.search(s):
+            text = pattern.search(s).group(0)  # type: ignore[union-attr]
+            if kind == "hydrate":
+                if text in ("anhydrous", "dried", "anhyd.", "anhyd", "dry"):
+                    water = 0 if water == "" else water
+                elif water == "":
+                    water = None
+            found.append(Qualifier(kind, text))
+            s = pattern.sub(" ", s)
+    for word, kind in (("monobasic", "basicity"), ("dibasic", "basicity"), ("tribasic", "basicity")):
+        if re.search(rf"(?<![\w]){word}(?![\w])", s):
+            found.append(Qualifier(kind, word))
+            s = re.sub(rf"(?<![\w]){word}(?![\w])", " ", s)
+    # brackets left empty, stray punctuation
+    s = re.sub(r"[\(\[]\s*[,;/]*\s*[\)\]]", " ", s)
+    s = re.sub(r"\s*;\s*|\s+/\s+", ", ", s)
+    s = re.sub(r"\s+", " ", s).strip(" ,-")
+    return s, found, water
+
+
+# ---------------------------------------------------------------------------
+# The lexicon of ion names
+# ---------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class _Piece:
+    """A word or words of a name, read: an ion, an element, or an open-charge metal."""
+
+    role: str  # 'cation', 'anion', 'element', 'open'
+    ion: Ion | None
+    symbol: str = ""
+    count: int | None = None  # from a multiplicative prefix
+    forms: tuple[str, ...] = ()
+    text: str = ""
+    stock: tuple[int, ...] = ()  # mixed-valence Stock numbers
+
+
+@cache
+def _ion_names() -> dict[str, list[tuple[Ion, str]]]:
+    """Folded name -> [(ion, which form of name)]."""
+    table: dict[str, list[tuple[Ion, str]]] = {}
+
+    def add(name: str, ion: Ion, form: str) -> None:
+        key, _ = _stock(_fold(name))
+        entries = table.setdefault(key, [])
+        if all(e[0] != ion for e in entries):
+            entries.append((ion, form))
+
+    for ion in catalog():
+        add(ion.name, ion, "")
+        if ion.legacy_name:
+            add(ion.legacy_name, ion, f"legacy name '{ion.legacy_name}' for {ion.name}")
+        for other in ion.other_names:
+            add(other, ion, f"other name '{other}' for {ion.name}")
+    return table
+
+
+@cache
+def _element_names() -> dict[str, str]:
+    table = {}
+    for sym in symbols():
+        el = element(sym)
+        table[_fold(el.name)] = sym
+        for v in el.variants:
+            table[_fold(v)] = sym
+    return table
+
+
+def _monatomic(symbol: str, sign: int) -> list[Ion]:
+    return [ion for ion, k in ions_in({symbol: 1}) if (ion.charge > 0) == (sign > 0) and ion.is_monatomic]
+
+
+def _strip_prefix(word: str) -> list[tuple[int, str]]:
+    """Readings of a word as multiplicative prefix + rest, with elision
+    ('tetroxide' = tetra + oxide, 'monoxide' = mono + oxide)."""
+    out = []
+    for prefix, n in _prefix_values():
+        if word.startswith(prefix) and len(word) > len(prefix) + 2:
+            out.append((n, word[len(prefix) :]))
+        if prefix[-1] in "ao" and word.startswith(prefix[:-1]) and len(word) > len(prefix) + 1:
+            rest = word[len(prefix) - 1 :]
+            if rest[0] in "aeiou":
+                out.append((n, rest))
+    return out
+
+
+def _lookup_piece(phrase: str) -> list[_Piece]:
+    """Every reading of a phrase (one or more words) as an ion, element or open metal."""
+    pieces: list[_Piece] = []
+    entries = _ion_names().get(phrase, [])
+    if len(entries) > 1 and any(form == "" for _, form in entries):
+        # a phrase that is one ion's own name and another's other name means
+        # the first ('carbide' is C4-; CaC2 is read from its established name)
+        entries = [(ion, form) for ion, form in entries if form == ""]
+    for ion, form in entries:
+        role = "cation" if ion.charge > 0 else "anion"
+        pieces.append(_Piece(role, ion, forms=(form,) if form else (), text=phrase))
+    if not pieces:
+        complex_ion = _read_complex(phrase)
+        if complex_ion is not None:
+            ion, form = complex_ion
+            pieces.append(_Piece("cation" if ion.charge > 0 else "anion", ion, forms=form, text=phrase))
+    m = re.fullmatch(r"([a-z]+)\(((?:[ivx]+,)+[ivx]+)\)", phrase)
+    if m and m.group(1) in _element_names():
+        values = tuple(_ROMAN_VALUES.get(v, 0) for v in m.group(2).split(","))
+        if all(values):
+            pieces.append(_Piece("open", None, _element_names()[m.group(1)], stock=values, text=phrase))
+    sym = _element_names().get(phrase)
+    if sym is not None:
+        cations = _monatomic(sym, +1)
+        if len(cations) > 1 or not cations:
+            pieces.append(_Piece("open" if cations else "element", None, sym, text=phrase))
+        elif not element(sym).is_metal:
+            pieces.append(_Piece("element", None, sym, text=phrase))
+    return pieces
+
+
+def _pieces_for(phrase: str) -> list[_Piece]:
+    found = _lookup_piece(phrase)
+    if found:
+        return found
+    m = re.fullmatch(r"([a-z]+?kis|bis|tris)\((.+)\)", phrase)
+    if m and m.group(1) in _complex_prefix_values():
+        n = _complex_prefix_values()[m.group(1)]
+        for piece in _lookup_piece(m.group(2)):
+            found.append(_Piece(piece.role, piece.ion, piece.symbol, n, piece.forms, phrase, piece.stock))
+        return found
+    if " " in phrase:
+        return found
+    for n, rest in _strip_prefix(phrase):
+        for piece in _lookup_piece(rest):
+            if piece.ion is not None and piece.ion.is_complex:
+                continue
+            found.append(_Piece(piece.role, piece.ion, piece.symbol, n, piece.forms, phrase, piece.stock))
+    return found
+
+
+def _segment(words: list[str]) -> list[list[_Piece]]:
+    """All readings of a word list as a sequence of pieces (longest phrases first)."""
+    results: list[list[_Piece]] = []
+
+    @cache
+    def at(i: int) -> tuple[tuple[_Piece, ...], ...]:
+        if i == len(words):
+            return ((),)
+        out: list[tuple[_Piece, ...]] = []
+        for j in range(min(len(words), i + 5), i, -1):
+            phrase = " ".join(words[i:j])
+            for piece in _pieces_for(phrase):
+                for rest in at(j):
+                    out.append((piece, *rest))
+                    if len(out) > 64:
+                        return tuple(out)
+        return tuple(out)
+
+    for reading in at(0):
+        results.append(list(reading))
+    return results
+
+
+# ---------------------------------------------------------------------------
+# Coordination entities by the additive rules (IUPAC 2005 IR-9)
+# ---------------------------------------------------------------------------
+
+
+@cache
+def _complex_grammar() -> pp.ParserElement:
+    by_name, _ = _ligands()
+    simple, complex_ = _prefixes()
+    prefix = pp.one_of([p for n, p in simple.items() if n >= 2]).set_name("prefix")
+    cprefix = pp.one_of([p for n, p in complex_.items() if n >= 2 and p]).set_name(
+        "prefix for a complex ligand"
+    )
+    ligand = pp.one_of(sorted(by_name, key=len, reverse=True)).set_name("ligand")
+    term = pp.Group(
+        (cprefix + pp.Suppress("(") + ligand + pp.Suppress(")"))
+        | (prefix + ligand)
+        | (pp.Empty().set_parse_action(lambda: "") + ligand)
+    )
+    metal = pp.Regex(r"[a-z]+").set_name("central atom")
+    state = pp.Regex(r"\((?:[ivx]+|0|\d[+-])\)").set_name("oxidation state")
+    grammar = pp.Group(pp.OneOrMore(term)) + metal + pp.Opt(state, default="") + pp.StringEnd()
+    grammar.leave_whitespace()
+    return grammar
+
+
+_NUMBER_OF_PREFIX: dict[str, int] = {}
+
+
+def _prefix_number(p: str) -> int:
+    if not _NUMBER_OF_PREFIX:
+        simple, complex_ = _prefixes()
+        for n, word in simple.items():
+            _NUMBER_OF_PREFIX[word] = n
+        for n, word in complex_.items():
+            if word:
+                _NUMBER_OF_PREFIX[word] = n
+    return _NUMBER_OF_PREFIX.get(p, 1) if p else 1
+
+
+@lru_cache(maxsize=4096)
+def _read_complex(word: str) -> tuple[Ion, tuple[str, ...]] | None:
+    """A coordination entity named by the additive rules, as an Ion, or None."""
+    if " " in word or len(word) < 6:
+        return None
+    try:
+        tree = _complex_grammar().parse_string(word, parse_all=True)
+    except pp.ParseBaseException:
+        # the ligands may have eaten the start of the metal name: try shorter splits
+        return _read_complex_backtrack(word)
+    return _complex_from_tree(tree, word)
+
+
+def _read_complex_backtrack(word: str) -> tuple[Ion, tuple[str, ...]] | None:
+    m = re.fullmatch(r"(.*?)(\((?:[ivx]+|0|\d[+-])\))?", word)
+    assert m is not None
+    body, state = m.group(1), m.group(2) or ""
+    _, back = _ate_names()
+    names = {**{_fold(element(s).name): s for s in symbols()}, **{k: v for k, v in back.items()}}
+    for metal_name in sorted(names, key=len, reverse=True):
+        if body.endswith(metal_name) and len(body) > len(metal_name):
+            head = body[: -len(metal_name)]
+            try:
+                terms = _ligand_terms(head)
+            except ValueError:
+                continue
+            return _complex_from_parts(terms, metal_name, state, word)
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _ligand_terms_cached(text: str) -> tuple[tuple[str, str], ...]:
+    by_name, _ = _ligands()
+    simple, complex_ = _prefixes()
+    prefixes = sorted(
+        {p for n, p in simple.items() if n >= 2} | {p for n, p in complex_.items() if p},
+        key=len,
+        reverse=True,
+    )
+    ligands = sorted(by_name, key=len, reverse=True)
+
+    def walk(i: int) -> tuple[tuple[str, str], ...] | None:
+        if i == len(text):
+            return ()
+        options = []
+        for p in ["", *prefixes]:
+            if not text.startswith(p, i):
+                continue
+            j = i + len(p)
+            paren = text.startswith("(", j)
+            k = j + 1 if paren else j
+            for lig in ligands:
+                if text.startswith(lig, k):
+                    end = k + len(lig)
+                    if paren:
+                        if not text.startswith(")", end):
+                            continue
+                        end += 1
+                    options.append(((p, lig), end))
+        for term, end in options:
+            rest = walk(end)
+            if rest is not None:
+                return (term, *rest)
+        return None
+
+    found = walk(0)
+    if found is None:
+        raise ValueError(text)
+    return found
+
+
+def _ligand_terms(text: str) -> list[tuple[str, str]]:
+    return list(_ligand_terms_cached(text))
+
+
+def _complex_from_tree(tree: pp.ParseResults, word: str) -> tuple[Ion, tuple[str, ...]] | None:
+    terms = [(t[0], t[1]) for t in tree[0]]
+    return _complex_from_parts(terms, tree[1], tree[2], word)
+
+
+def _complex_from_parts(
+    terms: list[tuple[str, str]], metal_name: str, state: str, word: str
+) -> tuple[Ion, tuple[str, ...]] | None:
+    by_name, _ = _ligands()
+    _, back = _ate_names()
+    forms: list[str] = []
+    anion = False
+    if metal_name in back:
+        symbol = back[metal_name]
+        anion = True
+    elif metal_name in _element_names():
+        symbol = _element_names()[metal_name]
+    else:
+        return None
+    ligand_items: list[Item] = []
+    ligand_charge = 0
+    for prefix, lig in terms:
+        f, charge, official = by_name[lig]
+        n = _prefix_number(prefix)
+        if lig != official.casefold():
+            forms.append(f"older ligand name '{lig}' for {official}")
+        ligand_charge += charge * n
+        items = f.parts[0].items
+        if len(items) == 1 and isinstance(items[0], Atom):
+            ligand_items.append(Atom(items[0].symbol, items[0].count * n))
+        else:
+            ligand_items.append(Group(items, n, "("))
+    if not state:
+        # a central atom with one common charge needs no Stock number
+        charges = [i.charge for i in _monatomic(symbol, +1)]
+        if len(charges) != 1:
+            return None
+        ox = charges[0]
+    elif state[1:-1] in _ROMAN_VALUES or state == "(0)":
+        ox = _ROMAN_VALUES.get(state[1:-1], 0)
+    else:
+        total = int(state[1:-2]) * (1 if state[-2] == "+" else -1)
+        ox = total - ligand_charge
+    charge = ox + ligand_charge
+    if charge == 0 or (charge < 0) != anion:
+        return None
+    group = Group((Atom(symbol, 1), *_ordered_ligands(ligand_items)), 1, "[")
+    formula = Formula((_part((group,)),), 0, render_items((group,)))
+    known = lookup(formula.counts, charge)
+    name = complex_name(symbol, ligand_items, charge)
+    ion = Ion(formula, charge, name, "", (), "IUPAC 2005 IR-9 additive name")
+    if known is not None:
+        ion = known
+    return ion, tuple(forms)
+
+
+def _part(items: tuple[Item, ...]):
+    from .formula import Part
+
+    return Part(items, 1)
+
+
+def _ligand_formula_key(item: Item) -> str:
+    return render_items((Group(item.items, 1, "("),)) if isinstance(item, Group) else item.symbol
+
+
+def _ordered_ligands(items: list[Item]) -> list[Item]:
+    """Ligands in a formula in alphabetical order of their formulas (IUPAC 2005 IR-9.2.3.1):
+    [CoCl(NH3)5]."""
+    return sorted(items, key=_ligand_formula_key)
+
+
+def _ligand_name_of(item: Item) -> tuple[str, int, int] | None:
+    """(ligand name, charge, how many) of one ligand item."""
+    _, by_key = _ligands()
+    if isinstance(item, Group):
+        inner = Formula((_part(item.items),), 0)
+        found = by_key.get(counts_key(inner.counts))
+        n = item.count
+    else:
+        found = by_key.get(counts_key({item.symbol: 1}))
+        n = item.count
+        if found is None and item.count > 1:
+            found = by_key.get(counts_key({item.symbol: item.count}))
+            n = 1
+    if found is None:
+        return None
+    return found[0], found[1], n
+
+
+def complex_name(symbol: str, ligand_items: list[Item], charge: int) -> str:
+    """The additive name of a coordination entity (IUPAC 2005 IR-9.2): ligands
+    in alphabetical order with multiplicative prefixes, then the central atom
+    (its '-ate' name in an anion) and its oxidation state as a Stock number
+    where the central atom has more than one common charge or is a d-block or
+    heavy p-block metal."""
+    simple, complex_ = _prefixes()
+    parts = []
+    ligand_charge = 0
+    for item in ligand_items:
+        found = _ligand_name_of(item)
+        if found is None:
+            raise NameError_(f"no ligand in the ligand table matches '{render_items((item,))}'")
+        name, lig_charge, n = found
+        ligand_charge += lig_charge * n
+        parts.append((name, n))
+    merged: dict[str, int] = {}
+    for name, n in parts:
+        # the donor-atom mark of an ambidentate ligand is left out in writing
+        # (hexanitritocobaltate(III), as stores name it)
+        name = re.sub(r"-(?:kappa)?[A-Z][a-z]?$", "", name)
+        merged[name] = merged.get(name, 0) + n
+    words = []
+    for name in sorted(merged, key=lambda x: re.sub(r"[^a-z]", "", x)):
+        n = merged[name]
+        needs_complex = bool(re.search(r"[\d,()\- ]", name)) or name.startswith(("di", "tri", "tetra"))
+        if n == 1:
+            words.append(f"({name})" if needs_complex and re.search(r"[\d,\- ]", name) else name)
+        elif needs_complex:
+            words.append(f"{complex_[n]}({name})")
+        else:
+            words.append(f"{simple[n]}{name}")
+    ox = charge - ligand_charge
+    el = element(symbol)
+    if charge < 0:
+        forward, _ = _ate_names()
+        centre = forward.get(symbol)
+        if centre is None:
+            raise NameError_(f"no anion name is known for {el.name} as the central atom of a complex anion")
+    else:
+        centre = el.name
+    charges = [i.charge for i in _monatomic(symbol, +1)]
+    d_block = (el.group is not None and 3 <= el.group <= 12) or symbol in ("Sn", "Sb", "Pb", "Tl", "Bi")
+    if len(charges) > 1 or (d_block and symbol not in ("Sc", "Y", "Zn", "Cd", "Ag")) or ox not in charges:
+        centre += f"({_ROMAN.get(ox, str(ox))})" if ox > 0 else f"({ox})"
+    return "".join(words) + centre
+
+
+# ---------------------------------------------------------------------------
+# Reading a name
+# ---------------------------------------------------------------------------
+
+
+def _unknown(text: str, why: str) -> NameError_:
+    return NameError_(f"'{text}' is not a name cellchem can read: {why}", text=text)
+
+
+def read_name(name: str) -> NameReading:
+    """The analysis of a name: ions with charges and counts, water, qualifiers,
+    and the legacy or regional forms used.
+
+    Args:
+        name: a name as found in a file, e.g. ``'Copper (II) Sulphate, 5-hydrate,
+            AR, 99.5%'`` or ``'ferric chloride hexahydrate'``.
+
+    Returns:
+        A NameReading.
+
+    Raises:
+        CellchemError: the name leaves a metal's charge open (the message lists
+            the candidates with their formulas), or is not a name cellchem knows.
+
+    >>> r = read_name("Copper (II) Sulphate, 5-hydrate, AR")
+    >>> r.formula, [q.text for q in r.qualifiers]
+    ('CuSO4·5H2O', ['5-hydrate', 'ar'])
+    """
+    if not isinstance(name, str) or not name.strip():
+        raise NameError_("no name given (the text is empty)", text=str(name))
+    return _read_name(name)
+
+
+@lru_cache(maxsize=32768)
+def _read_name(name: str) -> NameReading:
+    text = name.strip()
+    forms = _spelling_forms(text)
+    folded = _fold(text)
+    folded, stock_forms = _stock(folded)
+    forms.extend(stock_forms)
+    rest, qualifiers, water = _set_aside(folded)
+    if not rest:
+        raise _unknown(text, "only qualifiers were found (" + ", ".join(q.text for q in qualifiers) + ")")
+
+    # whole-name tables (trivial names, established names, acids): first with
+    # only numbers set aside ('ammonia solution 35%', 'laughing gas'), then
+    # with every qualifier set aside ('caustic soda pellets')
+    numbers_only = _take(_PURITY, _take(_CONCENTRATION, folded, "concentration", []), "purity", [])
+    for candidate in (_plain(numbers_only), _plain(rest)):
+        whole = _whole_lookup(text, candidate, water, qualifiers, forms)
+        if whole is not None:
+            return whole
+
+    if "—" in rest:
+        return _read_addition(text, rest, qualifiers, forms)
+    chunks = [c.strip() for c in re.split(r",(?![^()]*\))", rest) if c.strip()]
+    errors: list[CellchemError] = []
+    built: list[NameReading] = []
+    sized: list[tuple[NameReading, int]] = []
+    for chunk_order in _chunk_orders(chunks):
+        words = " ".join(chunk_order).split()
+        for pieces in _segment(words):
+            try:
+                reading = _build(text, pieces, water, qualifiers, forms, chunk_order != chunks)
+                built.append(reading)
+                sized.append((reading, len(pieces)))
+            except CellchemError as exc:
+                errors.append(exc)
+        if built:
+            break
+    if not built and not errors:
+        raise _unknown(text, _why_unread(rest))
+    if len({b.formula for b in built}) > 1:
+        # the reading of fewest pieces wins ('hydrogen tartrate' as one anion,
+        # not H+ and tartrate)
+        fewest = min(size for _, size in sized)
+        built = [b for b, size in sized if size == fewest]
+    unique = {b.formula: b for b in built}
+    if len(unique) == 1:
+        return next(iter(unique.values()))
+    if len(unique) > 1:
+        listing = ", ".join(f"{f}" for f in unique)
+        raise NameError_(
+            f"'{text}' can be read more than one way: {listing}", text=text, choices=tuple(unique)
+        )
+    raise errors[0]
+
+
+def _read_addition(text: str, rest: str, qualifiers: list[Qualifier], forms: list[str]) -> NameReading:
+    """An addition compound (IUPAC 2005 IR-5.5): 'sodium carbonate—hydrogen
+    peroxide (2/3)', 'potassium sulfate—aluminium sulfate—water (1/1/24)'."""
+    m = re.search(r"\(\s*(\d+(?:\s*/\s*\d+)+)\s*\)\s*$", rest)
+    if not m:
+        raise _unknown(text, "an addition compound name needs the ratio of its parts, e.g. '(2/3)'")
+    ratio = [int(x) for x in m.group(1).replace(" ", "").split("/")]
+    names = [n.strip() for n in rest[: m.start()].split("—")]
+    if len(names) != len(ratio):
+        raise _unknown(text, f"it names {len(names)} parts but gives {len(ratio)} numbers in the ratio")
+    pieces = []
+    for name, n in zip(names, ratio):
+        f = parse_formula("H2O") if name == "water" else parse_formula(_read_name(name).formula)
+        body = f.text()
+        pieces.append((str(n) if n != 1 else "") + body)
+    formula = parse_formula("·".join(pieces))
+    cations, anions, elements_ = _components_of(formula)
+    return NameReading(
+        text=text,
+        compound=rest,
+        kind="salt",
+        formula=formula.text(),
+        cations=cations,
+        anions=anions,
+        elements=elements_,
+        water=formula.water,
+        qualifiers=tuple(qualifiers),
+        forms=(*forms, "addition compound"),
+    )
+
+
+def _plain(rest: str) -> str:
+    """Commas (outside Stock numbers such as '(ii,iii)') as spaces, single spaces."""
+    return re.sub(r"\s+", " ", re.sub(r",(?![^()]*\))", " ", rest)).strip(" ,")
+
+
+def _whole_lookup(
+    text: str, plain: str, water: Number | str | None, qualifiers: list[Qualifier], forms: list[str]
+) -> NameReading | None:
+    for table, kind, label in (
+        (_trivial(), "trivial", "trivial name"),
+        (_named()[0], "", "established name"),
+        (_acids()[0], "acid", ""),
+    ):
+        found = table.get(plain)
+        if found is None:
+            continue
+        formula_text = found[0] if isinstance(found, tuple) else found
+        f = parse_formula(formula_text)
+        extra = [f"{label} '{plain}'"] if label else []
+        if kind == "acid" and charge_balance(f).kind != "ionic":
+            kind = ""
+        if not kind:
+            balance = charge_balance(f)
+            kind = {"ionic": "salt", "molecular": "molecular", "element": "element"}.get(balance.kind, "salt")
+        kept = [q for q in qualifiers if q.kind != "state" or q.text not in plain]
+        return _whole_reading(text, plain, kind, f, water, kept, forms + extra)
+    return None
+
+
+def _chunk_orders(chunks: list[str]) -> list[list[str]]:
+    """The chunks as written, then (catalogue inversion) with the anion chunk
+    moved after the others: 'sulfate, copper(ii)' -> 'copper(ii) sulfate'."""
+    orders = [chunks]
+    if len(chunks) > 1:
+        orders.append(chunks[1:] + chunks[:1])
+        orders.append(list(reversed(chunks)))
+    return orders
+
+
+def _why_unread(rest: str) -> str:
+    words = rest.replace(",", " ").split()
+    unknown = [w for w in words if not _pieces_for(w)]
+    if unknown:
+        return (
+            "no ion, element or known compound answers to "
+            + ", ".join(f"'{w}'" for w in unknown[:3])
+            + " (organic names, mixtures and product codes are not read)"
+        )
+    return "its words do not make up a compound (expected cation names, then anion names)"
+
+
+def _whole_reading(
+    text: str,
+    compound: str,
+    kind: str,
+    f: Formula,
+    water: Number | str | None,
+    qualifiers: list[Qualifier],
+    forms: list[str],
+) -> NameReading:
+    if water != "" and f.water != water:
+        if water == 0:
+            f = f.anhydrous()
+        elif kind != "acid":
+            f = f.with_water(water)  # type: ignore[arg-type]
+    cations, anions, elements_ = _components_of(f)
+    return NameReading(
+        text=text,
+        compound=compound,
+        kind=kind,
+        formula=f.text(),
+        cations=cations,
+        anions=anions,
+        elements=elements_,
+        water=f.water,
+        qualifiers=tuple(qualifiers),
+        forms=tuple(forms),
+    )
+
+
+def _components_of(f: Formula) -> tuple[tuple[Component, ...], tuple[Component, ...], tuple[Component, ...]]:
+    result = charge_balance(f)
+    cations: list[Component] = []
+    anions: list[Component] = []
+    elements_: list[Component] = []
+    if result.kind == "ionic":
+        for share in result.charges:
+            if share.ion is None:
+                continue
+            comp = Component(
+                "cation" if share.charge > 0 else "anion",
+                share.ion.name,
+                share.ion.text,
+                share.charge,
+                share.count,
+            )
+            (cations if share.charge > 0 else anions).append(comp)
+    else:
+        for sym, n in f.anhydrous().counts.items():
+            elements_.append(Component("element", element(sym).name, sym, 0, n))
+    return tuple(cations), tuple(anions), tuple(elements_)
+
+
+def _candidates(symbol: str, others: list[_Piece]) -> list[tuple[str, str]]:
+    out = []
+    for ion in _monatomic(symbol, +1):
+        try:
+            pieces = [_Piece("cation", ion), *others]
+            formula = _formula_of(pieces)
+            out.append((ion.name, formula.text()))
+        except CellchemError:
+            continue
+    return out
+
+
+def _build(
+    text: str,
+    pieces: list[_Piece],
+    water: Number | str | None,
+    qualifiers: list[Qualifier],
+    forms: list[str],
+    inverted: bool,
+) -> NameReading:
+    forms = list(forms)
+    if inverted:
+        forms.append("catalogue inversion")
+    for p in pieces:
+        forms.extend(p.forms)
+    roles = [p.role for p in pieces]
+    basicity = [q.text for q in qualifiers if q.kind == "basicity"]
+    if basicity:
+        pieces = _apply_basicity(text, pieces, basicity[0])
+    # a single element: the element itself
+    if (
+        len(pieces) == 1
+        and pieces[0].role in ("element", "open")
+        and pieces[0].count is None
+        and not pieces[0].stock
+    ):
+        return _element_reading(text, pieces[0], water, qualifiers, forms)
+    if (
+        len(pieces) == 1
+        and pieces[0].ion is not None
+        and pieces[0].ion.is_monatomic
+        and pieces[0].ion.charge > 0
+    ):
+        sym = pieces[0].ion.text
+        if pieces[0].ion.name == element(sym).name or pieces[0].text in _element_names():
+            return _element_reading(text, _Piece("element", None, sym), water, qualifiers, forms)
+    # cations before anions
+    seen_anion = False
+    for p in pieces:
+        if p.role == "anion":
+            seen_anion = True
+        elif seen_anion and p.role in ("cation", "open"):
+            raise _unknown(text, "a cation name follows an anion name (expected cations first)")
+    if "anion" not in roles:
+        if all(r == "element" for r in roles) or any(r == "element" for r in roles):
+            raise _unknown(text, "it names no anion")
+        raise _unknown(text, "it names cations but no anion")
+    opens = [p for p in pieces if p.role == "open" and not p.stock]
+    if opens and not any(p.count for p in pieces):
+        others = [p for p in pieces if p is not opens[0]]
+        candidates = _candidates(opens[0].symbol, others)
+        name = element(opens[0].symbol).name
+        listing = "; ".join(f"{n} {rest_name(others)}: {fx}" for n, fx in candidates)
+        raise NameError_(
+            f"'{text}' leaves the charge of {name} open; it may be {listing}"
+            f" (give a Stock number such as '{candidates[0][0] if candidates else name + '(II)'}')",
+            text=text,
+            choices=tuple(fx for _, fx in candidates),
+        )
+    f = _formula_of(pieces)
+    if water not in ("", 0, None):
+        f = f.with_water(water)  # type: ignore[arg-type]
+    elif water is None:
+        f = f.with_water(None)
+    cations, anions, elements_ = _components_of(f)
+    kind = "molecular" if any(p.role == "element" for p in pieces) else "salt"
+    if kind == "salt" and cations and all(c.formula == "H" for c in cations):
+        kind = "acid"
+    return NameReading(
+        text=text,
+        compound=" ".join(p.text for p in pieces if p.text) or text,
+        kind=kind,
+        formula=f.text(),
+        cations=cations,
+        anions=anions,
+        elements=elements_,
+        water=f.water,
+        qualifiers=tuple(qualifiers),
+        forms=tuple(dict.fromkeys(forms)),
+    )
+
+
+def rest_name(pieces: list[_Piece]) -> str:
+    return " ".join(p.ion.name if p.ion else element(p.symbol).name for p in pieces)
+
+
+def _apply_basicity(text: str, pieces: list[_Piece], word: str) -> list[_Piece]:
+    """'sodium phosphate, dibasic' is Na2HPO4 (common practice): the word
+    says how many of the acid's hydrogens are replaced by the cation."""
+    out = []
+    for p in pieces:
+        if p.role == "anion" and p.ion is not None and p.ion.text in ("PO4", "AsO4"):
+            base = p.ion.text
+            target = {"tribasic": base, "dibasic": "H" + base, "monobasic": "H2" + base}[word]
+            ion = next((i for i, k in ions_in(parse_formula(target).counts) if k == 1 and i.charge < 0), None)
+            if ion is None:
+                raise _unknown(text, f"no ion answers to '{word}' {p.ion.name}")
+            out.append(_Piece("anion", ion, forms=(f"'{word}' for {ion.name}",), text=p.text))
+        else:
+            out.append(p)
+    return out
+
+
+def _element_reading(
+    text: str, piece: _Piece, water: Number | str | None, qualifiers: list[Qualifier], forms: list[str]
+) -> NameReading:
+    sym = piece.symbol
+    n = 2 if sym in _DIATOMIC else 1
+    f = parse_formula(sym + (str(n) if n > 1 else ""))
+    return NameReading(
+        text=text,
+        compound=element(sym).name,
+        kind="element",
+        formula=f.text(),
+        elements=(Component("element", element(sym).name, sym, 0, n),),
+        water=0,
+        qualifiers=tuple(qualifiers),
+        forms=tuple(forms),
+    )
+
+
+_DIATOMIC = frozenset("H N O F Cl Br I".split())
+
+
+def _formula_of(pieces: list[_Piece]) -> Formula:
+    """The formula of a reading: counts from prefixes where given, else the
+    lowest whole-number ratio that balances the charges."""
+    species: list[tuple[str, Item | None, int | None, int | None, Ion | None]] = []
+    for p in pieces:
+        if p.role == "element":
+            species.append(("element", None, None, p.count, None))
+        elif p.role == "open" and p.stock:
+            for ox in p.stock:
+                ion = next((i for i in _monatomic(p.symbol, +1) if i.charge == ox), None)
+                if ion is None:
+                    raise NameError_(
+                        f"{element(p.symbol).name} has no {_ROMAN.get(ox, ox)} ion in the catalog"
+                    )
+                species.append(("cation", None, ox, None, ion))
+        elif p.role == "open":
+            species.append(("open", None, None, p.count, None))
+        else:
+            assert p.ion is not None
+            species.append((p.role, None, p.ion.charge, p.count, p.ion))
+    # a molecular binary compound: element + prefixed '-ide' anion, as named
+    if any(s[0] == "element" for s in species):
+        return _molecular_formula(pieces)
+    # explicit counts on every piece, or a single open metal fixed by them
+    counts = [s[3] for s in species]
+    if any(c is not None for c in counts):
+        fixed = [c if c is not None else 1 for c in counts]
+        total = 0
+        open_index = None
+        for (role, _, charge, _, _), n in zip(species, fixed):
+            if role == "open":
+                open_index = fixed.index(n)
+                continue
+            total += (charge or 0) * n
+        if open_index is not None:
+            p = pieces[open_index]
+            n = fixed[open_index]
+            if (-total) % n:
+                raise NameError_(f"the counts named leave {element(p.symbol).name} with a fractional charge")
+            ox = -total // n
+            ion = next((i for i in _monatomic(p.symbol, +1) if i.charge == ox), None)
+            if ion is None:
+                raise NameError_(
+                    f"the counts named need {element(p.symbol).name} as {ox:+d}, which is not a catalog ion"
+                )
+            species[open_index] = ("cation", None, ox, n, ion)
+        elif total != 0:
+            raise NameError_("the counts named do not balance the charges of the ions")
+        ions = [(s[4], n) for s, n in zip(species, fixed)]
+    else:
+        ions = _lowest_ratio([s[4] for s in species])  # type: ignore[misc]
+    return _assemble(ions)
+
+
+def _lowest_ratio(ions: list[Ion]) -> list[tuple[Ion, int]]:
+    if len(ions) == 2:
+        a, b = ions
+        g = gcd(a.charge, -b.charge)
+        return [(a, -b.charge // g), (b, a.charge // g)]
+    best = None
+    ranges = [range(1, 13)] * len(ions)
+    for combo in product(*ranges):
+        if sum(i.charge * n for i, n in zip(ions, combo)) != 0:
+            continue
+        key = sum(combo)
+        if best is None or key < best[0]:
+            best = (key, [combo])
+        elif key == best[0]:
+            best[1].append(combo)
+    if best is None:
+        raise NameError_("no whole-number ratio of these ions is neutral")
+    if len(best[1]) > 1:
+        raise NameError_("more than one ratio of these ions is neutral; name the counts with prefixes")
+    return list(zip(ions, best[1][0]))
+
+
+def _assemble(ions: list[tuple[Ion, int]]) -> Formula:
+    merged: dict[Ion, int] = {}
+    for ion, n in ions:
+        merged[ion] = merged.get(ion, 0) + n
+    cations = [(i, n) for i, n in merged.items() if i.charge > 0]
+    anions = [(i, n) for i, n in merged.items() if i.charge < 0]
+    if len(cations) > 1:
+        cations.sort(key=lambda x: _sort_name(x[0].name))
+    if len(anions) > 1:
+        anions.sort(key=lambda x: _sort_name(x[0].name))
+    terms: list[str] = []
+    done: set[str] = set()
+    for ion, n in cations:
+        if ion.is_monatomic:
+            # mixed valence: one term for the element (Fe3O4, not FeFe2O4)
+            if ion.text in done:
+                continue
+            total = sum(m for i, m in cations if i.is_monatomic and i.text == ion.text)
+            done.add(ion.text)
+            terms.append(ion.text + (str(total) if total > 1 else ""))
+        else:
+            terms.append(ion_term(ion, n))
+    terms.extend(ion_term(i, n) for i, n in anions)
+    return parse_formula("".join(terms))
+
+
+def _sort_name(name: str) -> str:
+    """Alphabetical order of names ignoring multiplicative prefixes, Stock
+    numbers and locants (IUPAC 2005 IR-5.4)."""
+    return re.sub(r"[^a-z]", "", re.sub(r"\(.*?\)", "", name.casefold()))
+
+
+def _molecular_formula(pieces: list[_Piece]) -> Formula:
+    out = []
+    for i, p in enumerate(pieces):
+        n = p.count or 1
+        if p.role == "element":
+            sym = p.symbol
+        elif p.ion is not None and p.ion.is_monatomic and p.ion.charge < 0 and i > 0:
+            sym = p.ion.text
+        elif p.ion is not None and p.ion.is_monatomic and p.ion.charge > 0 and i == 0:
+            sym = p.ion.text
+        else:
+            raise NameError_("a molecular name is an element and '-ide' names with multiplicative prefixes")
+        out.append(sym + (str(n) if n > 1 else ""))
+    f = parse_formula("".join(out))
+    if not charge_balance(f).balanced:
+        raise NameError_(f"{f.text()} does not balance: " + charge_balance(f).explanation)
+    return f
+
+
+def formula_from_name(name: str) -> str:
+    """The canonical formula of a name.
+
+    >>> formula_from_name("aluminium potassium sulfate dodecahydrate")
+    'AlK(SO4)2·12H2O'
+    >>> formula_from_name("ferric chloride")
+    'FeCl3'
+    """
+    return read_name(name).formula
+
+
+# ---------------------------------------------------------------------------
+# Naming a formula
+# ---------------------------------------------------------------------------
+
+SPELLINGS = ("iupac", "british", "american")
+
+
+def _respell(name: str, spelling: str) -> str:
+    if spelling == "british":
+        return re.sub(r"sulf", "sulph", name)
+    if spelling == "american":
+        return name.replace("aluminium", "aluminum").replace("caesium", "cesium")
+    return name
+
+
+def _ion_display_name(ion: Ion, legacy: bool) -> str:
+    if legacy and ion.legacy_name and ion.charge > 0:
+        return ion.legacy_name
+    return ion.name
+
+
+def name_from_formula(formula: str | Formula, spelling: str = "iupac", legacy: bool = False) -> str:
+    """The systematic name of a formula.
+
+    Args:
+        formula: text or a parsed Formula.
+        spelling: ``'iupac'`` (aluminium, caesium, sulfate), ``'british'``
+            (sulphate) or ``'american'`` (aluminum, cesium).
+        legacy: write the -ous/-ic name of a cation where one exists
+            (ferric chloride) instead of the Stock name (iron(III) chloride).
+
+    Raises:
+        CellchemError: the formula cannot be read, does not balance, or is not
+            a compound cellchem names (organic and other molecular compounds
+            beyond binary ones).
+
+    >>> name_from_formula("CuSO4·5H2O")
+    'copper(II) sulfate pentahydrate'
+    >>> name_from_formula("FeCl3", legacy=True)
+    'ferric chloride'
+    """
+    if spelling not in SPELLINGS:
+        raise CellchemError(f"unknown spelling '{spelling}' (expected one of: {', '.join(SPELLINGS)})")
+    f = as_formula(formula)
+    return _respell(_name(f, legacy), spelling)
+
+
+@lru_cache(maxsize=32768)
+def _name(f: Formula, legacy: bool) -> str:
+    text = f.source or f.text()
+    if f.charge:
+        ion = lookup(f.counts, f.charge)
+        if ion is not None and len(f.parts) == 1:
+            return _ion_display_name(ion, legacy)
+        raise NameError_(f"'{text}' is an ion cellchem does not know by name", text=text)
+    parts_names = []
+    base = f.anhydrous()
+    # established names and acids, by composition
+    key = (counts_key(f.counts), f.water)
+    named = _named()[1].get(key)
+    if named:
+        return named
+    if len(base.parts) == 1:
+        acid = _acids()[1].get(counts_key(base.counts))
+        if acid and _acid_matches(base):
+            return acid + _hydrate_suffix(f.water)
+    for part in base.parts:
+        single = Formula((part.__class__(part.items, 1),), 0, render_items(part.items))
+        own = _named()[1].get((counts_key(single.counts), 0))
+        parts_names.append(own or _salt_name(single, text, legacy))
+    if len(parts_names) == 1:
+        return parts_names[0] + _hydrate_suffix(f.water)
+    # an addition compound (IUPAC 2005 IR-5.5): names joined by em dashes and
+    # the ratio of the parts in whole numbers
+    amounts: list[Number] = [p.multiplier or 1 for p in base.parts]
+    names = list(parts_names)
+    if f.water:
+        names.append("water")
+        amounts.append(f.water)
+    scale = 1
+    for a in amounts:
+        scale = scale * Fraction(a).denominator // gcd(scale, Fraction(a).denominator)
+    whole = [int(Fraction(a) * scale) for a in amounts]
+    return "—".join(names) + f" ({'/'.join(str(w) for w in whole)})"
+
+
+def _acid_matches(base: Formula) -> bool:
+    result = charge_balance(base)
+    if result.kind != "ionic":
+        return True
+    return all(s.ion is None or s.charge < 0 or s.ion.text == "H" for s in result.charges)
+
+
+def _hydrate_suffix(water: Number | None) -> str:
+    if water == 0:
+        return ""
+    if water is None:
+        return " hydrate"
+    word = _hydrate_names().get(water)
+    if word:
+        return " " + word
+    return f" {_fmt_number(water)}-hydrate"
+
+
+def _fmt_number(n: Number) -> str:
+    if isinstance(n, Fraction):
+        return f"{float(n):g}"
+    return str(n)
+
+
+def _salt_name(f: Formula, text: str, legacy: bool) -> str:
+    result = charge_balance(f)
+    counts = f.counts
+    if result.kind == "element":
+        sym = next(iter(counts))
+        n = counts[sym]
+        el = element(sym)
+        if n == 1 or (n == 2 and sym in _DIATOMIC):
+            return el.name
+        simple, _ = _prefixes()
+        return simple.get(n, str(n)) + el.name
+    if not result.balanced:
+        raise NameError_(f"'{text}' cannot be named: {result.explanation}", text=text)
+    if result.kind == "molecular":
+        return _molecular_name(f, text)
+    cations = [s for s in result.charges if s.charge > 0]
+    anions = [s for s in result.charges if s.charge < 0]
+    cation_words = _cation_words(cations, legacy, f)
+    anion_words = sorted({_share_name(s, legacy, f) for s in anions}, key=_sort_name)
+    name = " ".join(cation_words + anion_words)
+    # Does the name read back to this formula? If not, say the counts.
+    try:
+        back = _read_name(name)
+        if counts_key(parse_formula(back.formula).counts) == counts_key(counts):
+            return name
+    except CellchemError:
+        pass
+    return _prefixed_name(cations, anions, legacy, f, text)
+
+
+def _share_name(share, legacy: bool, f: Formula) -> str:
+    ion = share.ion
+    if ion is not None:
+        if ion.is_complex:
+            items = ion.formula.parts[0].items[0]
+            assert isinstance(items, Group)
+            try:
+                return complex_name(items.items[0].symbol, list(items.items[1:]), ion.charge)  # type: ignore[union-attr]
+            except CellchemError:
+                return ion.name
+        return _ion_display_name(ion, legacy)
+    # a bracketed group read from its contents: name it by the additive rules
+    label = share.label
+    group = parse_formula(re.sub(r"\d*[+-]$", "", label)).parts[0].items[0]
+    if isinstance(group, Group) and isinstance(group.items[0], Atom):
+        return complex_name(group.items[0].symbol, list(group.items[1:]), share.charge)
+    raise NameError_(f"cellchem cannot name the group '{label}'")
+
+
+def _cation_words(cations, legacy: bool, f: Formula) -> list[str]:
+    by_element: dict[str, list] = {}
+    others = []
+    for s in cations:
+        if s.ion is not None and s.ion.is_monatomic:
+            by_element.setdefault(s.ion.text, []).append(s)
+        else:
+            others.append(_share_name(s, legacy, f))
+    words = list(others)
+    for sym, shares in by_element.items():
+        if len(shares) == 1:
+            words.append(_ion_display_name(shares[0].ion, legacy))
+        else:
+            states = ",".join(_ROMAN[s.charge] for s in sorted(shares, key=lambda s: s.charge))
+            words.append(f"{element(sym).name}({states})")
+    return sorted(words, key=_sort_name)
+
+
+def _prefixed_name(cations, anions, legacy: bool, f: Formula, text: str) -> str:
+    simple, complex_ = _prefixes()
+
+    def word(name: str, n: Number) -> str:
+        if n == 1:
+            return name
+        if not isinstance(n, int) or n not in simple:
+            raise NameError_(f"'{text}' cannot be named with multiplicative prefixes")
+        if re.search(r"[\d,()\- ]", name) or name.startswith(("di", "tri", "tetra", "hydrogen")):
+            return f"{complex_[n]}({name})"
+        return simple[n] + name
+
+    words = sorted((word(_share_name(s, legacy, f), s.count) for s in cations), key=_sort_name)
+    words += sorted((word(_share_name(s, legacy, f), s.count) for s in anions), key=_sort_name)
+    return " ".join(words)
+
+
+def _molecular_name(f: Formula, text: str) -> str:
+    counts = f.counts
+    if len(counts) != 2 or len(f.parts[0].items) != 2:
+        raise NameError_(
+            f"cellchem names salts, acids, binary compounds and elements; '{text}' is a molecular"
+            " compound of more than two elements or groups",
+            text=text,
+        )
+    simple, _ = _prefixes()
+    (first, n1), (second, n2) = counts.items()
+    anions = _monatomic(second, -1)
+    if not anions:
+        raise NameError_(f"'{text}': {element(second).name} has no '-ide' name in the catalog", text=text)
+    ide = anions[0].name
+    lead = element(first).name
+    if n1 != 1:
+        lead = simple[int(n1)] + lead
+    prefix = simple[int(n2)]
+    if prefix.endswith(("a", "o")) and ide.startswith("o") and prefix == "mono":
+        prefix = prefix[:-1]  # 'monoxide' (IUPAC 2005 IR-5.2)
+    return f"{lead} {prefix}{ide}"
+
+
+__all__ = [
+    "Component",
+    "NameReading",
+    "Qualifier",
+    "formula_from_name",
+    "name_from_formula",
+    "read_name",
+]
