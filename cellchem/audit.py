@@ -14,7 +14,9 @@ from dataclasses import dataclass
 from .charge import charge_balance
 from .errors import CellchemError
 from .formula import Formula, case_readings, parse_formula
+from .ions import counts_key
 from .mass import molar_mass
+from .names import read_name
 
 ERROR = "error"
 WARNING = "warning"
@@ -93,19 +95,120 @@ def mass_tolerance(stated: float, decimals: int) -> float:
     return 0.5 * 10.0 ** (-decimals) + max(0.01, 1e-4 * stated)
 
 
-def check_line(formula: object, stated_molar_mass: object = None) -> LineResult:
-    """Check a line's formula, and its stated molar mass against the formula.
+def _blank(value: object) -> bool:
+    return value is None or (isinstance(value, str) and not value.strip())
+
+
+def _same(a: Formula, b: Formula) -> bool:
+    return counts_key(a.counts) == counts_key(b.counts) and a.charge == b.charge
+
+
+def check_name(name: object, formula: Formula | None) -> list[Finding]:
+    """Does the line's name describe the line's formula?
 
     Args:
-        formula: the formula cell (text); empty gives no findings.
+        name: the name cell (text).
+        formula: the line's formula, read, or None when the line has none.
+
+    Returns:
+        Findings: an error when they disagree, a warning when the name is
+        silent about the hydrate the formula has, a note when the name cannot
+        be read (organic names, mixtures, product codes are not checked) or
+        leaves a charge open that the formula settles.
+    """
+    if _blank(name):
+        return []
+    text = str(name)
+    try:
+        reading = read_name(text)
+    except CellchemError as exc:
+        if exc.choices and formula is not None:
+            dry = formula.anhydrous()
+            matches = [c for c in exc.choices if _same(parse_formula(c), dry)]
+            if matches:
+                return [
+                    Finding(
+                        "name",
+                        NOTE,
+                        f"the name '{text}' leaves a charge open; the formula {formula.text()} settles it",
+                        "",
+                        "name",
+                    )
+                ]
+            return [
+                Finding(
+                    "name",
+                    ERROR,
+                    f"the name '{text}' fits none of its readings to the formula {formula.text()}: {exc}",
+                    "",
+                    "name",
+                )
+            ]
+        return [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
+    named = parse_formula(reading.formula)
+    if formula is None:
+        return [
+            Finding(
+                "name",
+                NOTE,
+                f"no formula on the line; the name '{text}' reads as {named.text()}",
+                named.text(),
+                "formula",
+            )
+        ]
+    if _same(named, formula):
+        return []
+    if _same(named.anhydrous(), formula.anhydrous()):
+        if formula.water is None or named.water is None:
+            return []
+        stated = any(q.kind == "hydrate" for q in reading.qualifiers)
+        if not stated and named.water == 0:
+            return [
+                Finding(
+                    "name",
+                    WARNING,
+                    f"the name '{text}' does not say which hydrate; the formula {formula.text()} has"
+                    f" {formula.water} H2O",
+                    "",
+                    "name",
+                )
+            ]
+        return [
+            Finding(
+                "name",
+                ERROR,
+                f"the name '{text}' reads as {named.text()}, but the formula is {formula.text()}"
+                " (a different hydrate)",
+                named.text(),
+                "formula",
+            )
+        ]
+    return [
+        Finding(
+            "name",
+            ERROR,
+            f"the name '{text}' reads as {named.text()}, but the formula is {formula.text()}",
+            named.text(),
+            "formula",
+        )
+    ]
+
+
+def check_line(formula: object, stated_molar_mass: object = None, name: object = None) -> LineResult:
+    """Check a line's formula, its stated molar mass against the formula, and
+    its name against the formula.
+
+    Args:
+        formula: the formula cell (text); empty gives no formula findings.
         stated_molar_mass: the molar-mass cell (number or text, g/mol), or None.
+        name: the name cell (text), or None.
 
     Returns:
         A LineResult with the findings.
     """
     findings: list[Finding] = []
-    if formula is None or (isinstance(formula, str) and not formula.strip()):
-        return LineResult(None, None, ())
+    if _blank(formula):
+        return LineResult(None, None, tuple(check_name(name, None)))
     text = str(formula)
     try:
         f = parse_formula(text)
@@ -115,6 +218,7 @@ def check_line(formula: object, stated_molar_mass: object = None) -> LineResult:
             suggestion = "write one of: " + ", ".join(exc.choices)
         findings.append(Finding("formula", ERROR, str(exc), suggestion, "formula"))
         return LineResult(None, None, tuple(findings))
+    findings.extend(check_name(name, f))
     if not any(c.islower() for c in text) and len(f.counts) > 1:
         other = case_readings(text)
         if other:

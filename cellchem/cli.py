@@ -13,13 +13,23 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from . import __version__
-from .audit import ERROR, check_line
+from .audit import ERROR, NOTE, WARNING, check_line
 
 EXIT_CLEAN = 0
 EXIT_FINDINGS = 1
 EXIT_USAGE = 2
 
 _FORMULA_HEADERS = ("formula", "molecular formula", "chemical formula", "formel")
+_NAME_HEADERS = (
+    "name",
+    "chemical name",
+    "item",
+    "description",
+    "product",
+    "substance",
+    "chemical",
+    "product name",
+)
 _MASS_HEADERS = (
     "molar mass",
     "molar mass (g/mol)",
@@ -86,16 +96,19 @@ def _cmd_check_formulas(args: argparse.Namespace) -> int:
             + " (name one with --formula-column)"
         )
     mcol = _find_column(headers, _MASS_HEADERS, args.mass_column)
+    ncol = _find_column(headers, _NAME_HEADERS, args.name_column)
     out = sys.stdout
     errors = warnings = checked = 0
     out.write(f"{'line':>5}  {'formula as written':<24} {'reads as':<24} {'g/mol':>10}  verdict\n")
+    notes = 0
     for number, row in enumerate(rows[1:], start=2):
         formula = row[fcol] if fcol < len(row) else ""
         stated = row[mcol] if mcol is not None and mcol < len(row) else None
+        name = row[ncol] if ncol is not None and ncol < len(row) else None
         if not formula.strip():
             continue
         checked += 1
-        result = check_line(formula, stated)
+        result = check_line(formula, stated, name)
         reads = result.formula.text() if result.formula else "-"
         mass = f"{result.molar_mass:.2f}" if result.molar_mass is not None else "-"
         verdict = (
@@ -105,8 +118,11 @@ def _cmd_check_formulas(args: argparse.Namespace) -> int:
         for extra in result.findings[1:]:
             out.write(f"{'':>5}  {'':<24} {'':<24} {'':>10}  {extra.severity}: {extra.message}\n")
         errors += sum(1 for f in result.findings if f.severity == ERROR)
-        warnings += sum(1 for f in result.findings if f.severity != ERROR)
-    out.write(f"\n{checked} lines checked in '{args.file}': {errors} errors, {warnings} warnings or notes\n")
+        warnings += sum(1 for f in result.findings if f.severity == WARNING)
+        notes += sum(1 for f in result.findings if f.severity == NOTE)
+    out.write(
+        f"\n{checked} lines checked in '{args.file}': {errors} errors, {warnings} warnings, {notes} notes\n"
+    )
     return EXIT_FINDINGS if errors else EXIT_CLEAN
 
 
@@ -119,10 +135,11 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     check = sub.add_parser(
         "check-formulas",
-        help="read the formula column of a CSV list and check each formula and its stated molar mass",
+        help="check the formula, name and molar-mass columns of a CSV list against each other",
         description=(
             "Read the formula column of a CSV inventory list, check that each formula can be read and"
-            " balances, and compare its molar mass with the stated one. The file is only read."
+            " balances, that the name on the line describes it, and compare its molar mass with the"
+            " stated one. The file is only read."
             " Example: cellchem check-formulas workbooks/demo-stock-list.csv"
         ),
     )
@@ -136,6 +153,11 @@ def build_parser() -> argparse.ArgumentParser:
     )
     check.add_argument(
         "--mass-column", metavar="HEADER", help="the header of the molar-mass column, e.g. --mass-column 'MW'"
+    )
+    check.add_argument(
+        "--name-column",
+        metavar="HEADER",
+        help="the header of the name column, e.g. --name-column 'Description'",
     )
     check.set_defaults(run=_cmd_check_formulas)
     return parser

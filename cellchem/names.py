@@ -470,6 +470,10 @@ def _lookup_piece(phrase: str) -> list[_Piece]:
         role = "cation" if ion.charge > 0 else "anion"
         pieces.append(_Piece(role, ion, forms=(form,) if form else (), text=phrase))
     if not pieces:
+        oxo = _oxoanion_by_state(phrase)
+        if oxo is not None:
+            pieces.append(_Piece("anion", oxo[0], forms=oxo[1], text=phrase))
+    if not pieces:
         complex_ion = _read_complex(phrase)
         if complex_ion is not None:
             ion, form = complex_ion
@@ -487,6 +491,44 @@ def _lookup_piece(phrase: str) -> list[_Piece]:
         elif not element(sym).is_metal:
             pieces.append(_Piece("element", None, sym, text=phrase))
     return pieces
+
+
+@lru_cache(maxsize=4096)
+def _oxoanion_by_state(phrase: str) -> tuple[Ion, tuple[str, ...]] | None:
+    """An oxoanion named by its central atom's oxidation state, as schools and
+    stores write it: manganate(VII) is MnO4-, sulfate(IV) is SO3 2-,
+    chlorate(I) is ClO- (IUPAC 2005 IR-5.4.2.2 gives the oxidation number in
+    Roman numerals; the use with -ate names is common practice)."""
+    m = re.fullmatch(r"([a-z]+ate)\(([ivx]+)\)", phrase)
+    if not m or m.group(2) not in _ROMAN_VALUES:
+        return None
+    base, state = m.group(1), _ROMAN_VALUES[m.group(2)]
+    stem_symbol = None
+    named = [ion for ion, _ in _ion_names().get(base, []) if ion.charge < 0]
+    _, back = _ate_names()
+    stem = re.sub(r"^(?:di|tri|tetra|per|hypo)", "", base)
+    stem_symbol = back.get(stem) or back.get(base)
+    if stem_symbol is None and named:
+        stem_symbol = next((s for s in named[0].formula.counts if s != "O"), None)
+    if stem_symbol is None:
+        return None
+    from .charge import rule_states
+
+    candidates = []
+    for ion in catalog():
+        counts = ion.formula.counts
+        if ion.charge >= 0 or set(counts) != {stem_symbol, "O"}:
+            continue
+        states = rule_states(counts, ion.charge)
+        if states is not None and states.get(stem_symbol) == state:
+            candidates.append(ion)
+    exact = [ion for ion in candidates if ion in named]
+    if len(exact) == 1:
+        return exact[0], ()
+    single = [ion for ion in candidates if ion.formula.counts[stem_symbol] == 1]
+    if len(single) == 1:
+        return single[0], (f"oxidation-state name '{phrase}' for {single[0].name}",)
+    return None
 
 
 def _pieces_for(phrase: str) -> list[_Piece]:

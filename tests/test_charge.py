@@ -48,23 +48,23 @@ CHARGE_ROWS = [
     # iron(II) chloride: Fe +2, common practice (from memory)
     ("FeCl2", True, "ionic", (("Fe2+", 2, 1), ("Cl-", -1, 2))),
     # iron(III) oxide: Fe +3, GE ch. 25 (from memory)
-    ("Fe2O3", True, "ionic", (("Fe3+", 3, 2), ("O2-", -2, 3))),
+    ("Fe2O3", True, "ionic", (("Fe3+", 3, 2), ("O^2-", -2, 3))),
     # iron(II) oxide: Fe +2, GE ch. 25 (from memory)
-    ("FeO", True, "ionic", (("Fe2+", 2, 1), ("O2-", -2, 1))),
+    ("FeO", True, "ionic", (("Fe2+", 2, 1), ("O^2-", -2, 1))),
     # magnetite: one Fe(II) and two Fe(III) per Fe3O4, GE ch. 25 (from memory)
-    ("Fe3O4", True, "ionic", (("Fe2+", 2, 1), ("Fe3+", 3, 2), ("O2-", -2, 4))),
+    ("Fe3O4", True, "ionic", (("Fe2+", 2, 1), ("Fe3+", 3, 2), ("O^2-", -2, 4))),
     # cobalt(II,III) oxide, same spinel pattern as magnetite, GE ch. 26 (from memory)
-    ("Co3O4", True, "ionic", (("Co2+", 2, 1), ("Co3+", 3, 2), ("O2-", -2, 4))),
+    ("Co3O4", True, "ionic", (("Co2+", 2, 1), ("Co3+", 3, 2), ("O^2-", -2, 4))),
     # red lead: two Pb(II) and one Pb(IV), GE ch. 10 (from memory)
-    ("Pb3O4", True, "ionic", (("Pb2+", 2, 2), ("Pb4+", 4, 1), ("O2-", -2, 4))),
+    ("Pb3O4", True, "ionic", (("Pb2+", 2, 2), ("Pb4+", 4, 1), ("O^2-", -2, 4))),
     # lead(IV) oxide: Pb +4, GE ch. 10 (from memory)
-    ("PbO2", True, "ionic", (("Pb4+", 4, 1), ("O2-", -2, 2))),
+    ("PbO2", True, "ionic", (("Pb4+", 4, 1), ("O^2-", -2, 2))),
     # manganese(IV) oxide: Mn +4 with oxide, not Mn +2 with peroxide, GE ch. 24 (from memory)
-    ("MnO2", True, "ionic", (("Mn4+", 4, 1), ("O2-", -2, 2))),
+    ("MnO2", True, "ionic", (("Mn4+", 4, 1), ("O^2-", -2, 2))),
     # chromium(VI) oxide: Cr +6, GE ch. 23 (from memory); formal charge, as the catalog notes
-    ("CrO3", True, "ionic", (("Cr6+", 6, 1), ("O2-", -2, 3))),
+    ("CrO3", True, "ionic", (("Cr6+", 6, 1), ("O^2-", -2, 3))),
     # copper(I) oxide: Cu +1, common practice (from memory)
-    ("Cu2O", True, "ionic", (("Cu+", 1, 2), ("O2-", -2, 1))),
+    ("Cu2O", True, "ionic", (("Cu+", 1, 2), ("O^2-", -2, 1))),
     # tin(IV) chloride: Sn +4, common practice (from memory)
     ("SnCl4", True, "ionic", (("Sn4+", 4, 1), ("Cl-", -1, 4))),
     # --- homonuclear ions ---
@@ -77,15 +77,15 @@ CHARGE_ROWS = [
     # barium peroxide holds O2 2-, GE ch. 5 (from memory)
     ("BaO2", True, "ionic", (("Ba2+", 2, 1), ("O2 2-", -2, 1))),
     # potassium superoxide holds O2 1-, IUPAC 2005 IR-5.3.3.3 (from memory)
-    ("KO2", True, "ionic", (("K+", 1, 1), ("O2-", -1, 1))),
+    ("KO2", True, "ionic", (("K+", 1, 1), ("O2^-", -1, 1))),
     # calcium carbide holds acetylide C2 2-, GE ch. 8 (from memory)
     ("CaC2", True, "ionic", (("Ca2+", 2, 1), ("C2 2-", -2, 1))),
     # aluminium carbide holds C 4- (methanide), GE ch. 8 (from memory)
     ("Al4C3", True, "ionic", (("Al3+", 3, 4), ("C4-", -4, 3))),
     # sodium azide holds N3 1-, GE ch. 11 (from memory)
-    ("NaN3", True, "ionic", (("Na+", 1, 1), ("N3-", -1, 1))),
+    ("NaN3", True, "ionic", (("Na+", 1, 1), ("N3^-", -1, 1))),
     # lithium nitride holds N 3-, GE ch. 4 (from memory)
-    ("Li3N", True, "ionic", (("Li+", 1, 3), ("N3-", -3, 1))),
+    ("Li3N", True, "ionic", (("Li+", 1, 3), ("N^3-", -3, 1))),
     # pyrite: Fe +2 with disulfide S2 2-, GE ch. 25 (from memory)
     ("FeS2", True, "ionic", (("Fe2+", 2, 1), ("S2 2-", -2, 1))),
     # sodium hydride holds H-, GE ch. 3 (from memory)
@@ -383,19 +383,19 @@ EXPLANATIONS = [
     # ionic, one variable metal: Fe +3, common practice (from memory)
     ("FeCl3", "FeCl3: Fe3+ + 3 Cl- (iron is +3)"),
     # mixed valence, GE ch. 25 (from memory)
-    ("Fe3O4", "Fe3O4: Fe2+ + 2 Fe3+ + 4 O2- (mixed valence: iron is +2 and +3)"),
+    ("Fe3O4", "Fe3O4: Fe2+ + 2 Fe3+ + 4 O^2- (mixed valence: iron is +2 and +3)"),
     # red lead, GE ch. 10 (from memory)
-    ("Pb3O4", "Pb3O4: 2 Pb2+ + Pb4+ + 4 O2- (mixed valence: lead is +2 and +4)"),
+    ("Pb3O4", "Pb3O4: 2 Pb2+ + Pb4+ + 4 O^2- (mixed valence: lead is +2 and +4)"),
     # dimercury(I), IUPAC 2005 IR-5.3.2.3 (from memory)
     ("Hg2Cl2", "Hg2Cl2: Hg2 2+ + 2 Cl- (it holds the dimercury(I) ion Hg2 2+)"),
     # peroxide, IUPAC 2005 IR-5.3.3.3 (from memory)
     ("Na2O2", "Na2O2: 2 Na+ + O2 2- (it holds the peroxide ion O2 2-)"),
     # superoxide, IUPAC 2005 IR-5.3.3.3 (from memory)
-    ("KO2", "KO2: K+ + O2- (it holds the superoxide ion O2-)"),
+    ("KO2", "KO2: K+ + O2^- (it holds the superoxide ion O2^-)"),
     # disulfide and iron(II) together, GE ch. 25 (from memory)
     ("FeS2", "FeS2: Fe2+ + S2 2- (it holds the disulfide ion S2 2-; iron is +2)"),
     # Mn +4 oxide, GE ch. 24 (from memory)
-    ("MnO2", "MnO2: Mn4+ + 2 O2- (manganese is +4)"),
+    ("MnO2", "MnO2: Mn4+ + 2 O^2- (manganese is +4)"),
     # hydrate: the water is not listed among the ions
     ("CuSO4·5H2O", "CuSO4·5H2O: Cu2+ + SO4 2- (copper is +2)"),
     # the '.' hydrate dot is written back as '·'
