@@ -257,14 +257,28 @@ def _forms_cation(symbol: str) -> bool:
     return element(symbol).is_metal or any(ion.charge > 0 for ion, _ in ions_in({symbol: 1}))
 
 
+def _hydride_plausible(path: tuple[_Option, ...]) -> bool:
+    """Hydride H- stands beside metal cations only: AsH3 and GeH4 are
+    molecular (arsane, germane), not As3+ or Ge4+ with hydride ions (common practice)."""
+    shares = [share for opt in path for share in opt.shares if share.ion is not None]
+    if not any(s.ion is not None and s.ion.text == "H" and s.charge < 0 for s in shares):
+        return True
+    for s in shares:
+        ion = s.ion
+        if ion is not None and ion.charge > 0 and ion.is_monatomic and not element(ion.text).is_metal:
+            return False
+    return True
+
+
 def _has_metal(counts: dict[str, Number]) -> bool:
     return any(_forms_cation(s) for s in counts)
 
 
 # Peroxide, superoxide and ozonide stand with the s-block cations (Na2O2, BaO2,
-# KO2, KO3), not with a transition metal (MnO4 is not Mn2+ and two superoxide
-# ions): common practice.
-_OXO_PARTNERS = frozenset("H Li Na K Rb Cs Fr Be Mg Ca Sr Ba Ra O".split())
+# KO2, KO3) and zinc, cadmium and uranyl (ZnO2, CdO2, UO2O2 are sold), not with
+# the other transition metals (MnO4 is not Mn2+ and two superoxide ions):
+# common practice.
+_OXO_PARTNERS = frozenset("H Li Na K Rb Cs Fr Be Mg Ca Sr Ba Ra Zn Cd U O".split())
 
 
 def _allows_oxo_ions(counts: dict[str, Number]) -> bool:
@@ -421,9 +435,11 @@ def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
                 UNBALANCED, (), (), None, f"{render_items(part.items)} is {named}, not of charge {target:+d}"
             )
     whole_ion = target != 0 and solution is not None and len(_flatten(solution[1])) == 1
-    if solution is not None and (metal or whole_ion or _acceptable_without_metal(solution[1])):
+    plausible = solution is not None and _hydride_plausible(solution[1])
+    if plausible and solution is not None and (metal or whole_ion or _acceptable_without_metal(solution[1])):
         return _PartReading(IONIC, _flatten(solution[1]), solution[1])
-    if not metal or adduct:
+    true_metal = any(element(s).is_metal for s in counts)
+    if not metal or adduct or not true_metal:
         states = rule_states(counts, target)
         odd = _electrons(counts, target) % 2 == 1 and counts_key(counts) not in _STABLE_RADICALS
         if states is not None and not odd:

@@ -26,6 +26,7 @@ class CellchemError(ValueError):
         position: int | None = None,
         choices: tuple[str, ...] = (),
     ) -> None:
+        message = _one_line(message)
         super().__init__(message)
         self.message = message
         self.text = text
@@ -40,6 +41,14 @@ class CellchemError(ValueError):
             _rebuild,
             (type(self), self.message, self.text, self.position, self.choices),
         )
+
+
+def _one_line(message: str) -> str:
+    """Show line breaks and other control characters of a quoted input as
+    escapes, so that a message stays on one line (it may land in a cell)."""
+    if message.isprintable():
+        return message
+    return "".join(ch if ch.isprintable() else ch.encode("unicode_escape").decode("ascii") for ch in message)
 
 
 def _rebuild(cls, message, text, position, choices):

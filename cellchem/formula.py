@@ -157,7 +157,15 @@ class Formula:
         base = self.anhydrous()
         if n == 0:
             return base
-        water = Part((Atom("H", 2), Atom("O", 1)), _norm(Fraction(n)) if n is not None else None)
+        if n is not None:
+            value = Fraction(str(n)) if isinstance(n, float) else Fraction(n)
+            if value <= 0 or value > MAX_COUNT:
+                raise FormulaError(
+                    f"a water count of {n} is out of range (expected 0, or a number above 0 and up to"
+                    f" {MAX_COUNT:,})"
+                )
+            n = _norm(value)
+        water = Part((Atom("H", 2), Atom("O", 1)), n)
         return Formula(base.parts + (water,), self.charge, self.source)
 
     # -- text -------------------------------------------------------------
@@ -217,15 +225,20 @@ def _scaled(counts: dict[str, Number], factor: Number) -> dict[str, Number]:
 
 def _render_number(n: Number) -> str:
     if isinstance(n, Fraction):
-        # Decimal text when it terminates (0.5, 0.25), else a fraction.
+        # Exact decimal text when it terminates (0.5, 0.0078125), else a fraction.
         d = n.denominator
+        twos = fives = 0
         while d % 2 == 0:
             d //= 2
+            twos += 1
         while d % 5 == 0:
             d //= 5
+            fives += 1
         if d == 1:
-            text = f"{float(n):.6f}".rstrip("0").rstrip(".")
-            return text
+            places = max(twos, fives)
+            scaled = n.numerator * 10**places // n.denominator
+            whole, frac = divmod(scaled, 10**places)
+            return f"{whole}.{frac:0{places}d}".rstrip("0").rstrip(".")
         return f"{n.numerator}/{n.denominator}"
     return str(n)
 
@@ -344,6 +357,9 @@ class _Charge:
     attached_sign: bool  # a lone sign written right after a count: 'NH4+', 'Fe3+'
 
 
+_NO_CHARGE = _Charge(0, False)
+
+
 def _charge_value(text: str) -> int:
     """'2-' -> -2, '+3' -> 3, '--' -> -2, '+' -> 1."""
     digits = "".join(c for c in text if c.isdigit())
@@ -361,7 +377,8 @@ def _charge_value(text: str) -> int:
 @cache
 def _grammar() -> pp.ParserElement:
     count = pp.Regex(r"\d+").leave_whitespace().set_name("count")
-    count.set_parse_action(lambda t: int(t[0]))
+    # a count with a leading zero ("03") is read as 0, which is refused
+    count.set_parse_action(lambda t: 0 if t[0].startswith("0") else int(t[0]))
     symbol = pp.Regex(r"[A-Z][a-z]?").set_name("element symbol")
     symbol.set_parse_action(lambda s, loc, t: _Symbol(t[0], loc))
     atom = (symbol + pp.Opt(count, default=1)).set_name("element")
@@ -398,7 +415,8 @@ def _grammar() -> pp.ParserElement:
     charge.set_name("charge")
 
     # The repetition must not swallow the space before a spaced charge.
-    more_parts = pp.ZeroOrMore(pp.Suppress(dot) + part).leave_whitespace(recursive=False)
+    dot.set_parse_action(lambda s, loc, t: ("dot", loc, t[0]))
+    more_parts = pp.ZeroOrMore(dot + part).leave_whitespace(recursive=False)
     formula = part + more_parts + pp.Opt(charge) + pp.StringEnd()
     formula.set_name("formula")
     return formula
@@ -472,7 +490,15 @@ class _Builder:
                 f" (expected a number above 0 and up to {MAX_COUNT:,})",
                 text=self.text,
             )
-        return Part(tuple(self.item(x) for x in items), multiplier)
+        built = tuple(self.item(x) for x in items)
+        if (
+            len(built) == 1
+            and isinstance(built[0], Group)
+            and built[0].bracket == "("
+            and built[0].count == 1
+        ):
+            built = built[0].items  # '5(H2O)' is 5 H2O
+        return Part(built, multiplier)
 
 
 def _unknown_symbol(text: str, sym: str, position: int) -> FormulaError:
@@ -626,8 +652,16 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
     last_part = f.parts[-1]
     last = last_part.items[-1]
     digits = str(last.count)
-    if last.count == 1 or len(f.parts) > 1 or last_part.multiplier != 1 or digits[-1] == "0":
+    if last.count == 1 or digits[-1] == "0":
         return f
+    if len(f.parts) > 1 or last_part.multiplier != 1 or digits[:-1] == "1":
+        body = render_items(last_part.items)
+        raise FormulaError(
+            f"'{text}' is ambiguous: the digits before its sign may be a count or a charge;"
+            " write the charge with '^' (for example 'Fe^3+') or with a space ('SO4 2-')",
+            text=text,
+            choices=(body + _render_charge(f.charge),),
+        )
     new_count = int(digits[:-1]) if len(digits) > 1 else 1
     sign = 1 if f.charge > 0 else -1
     if isinstance(last, Group):
@@ -647,7 +681,7 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
         # Neither is a catalog ion: a bracketed group ('[Co(NH3)5Cl]2+') and a
         # lone element ('Ti4+', never tetratitanium(1+)) take the charge reading.
         if isinstance(last, Group) or (
-            len(f.counts) == 1 and new_count == 1 and f.charge > 0 and _is_metal(last.symbol)
+            len(f.counts) == 1 and new_count == 1 and f.charge > 0 and _variable_metal(last.symbol)
         ):
             return as_charge
     body_a = render_items(last_part.items)
@@ -665,10 +699,14 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
     )
 
 
-def _is_metal(symbol: str) -> bool:
+def _variable_metal(symbol: str) -> bool:
+    """A metal the catalog gives more than one charge (Fe4+ reads as Fe 4+;
+    Na2+ is refused, since sodium forms only Na+)."""
     from .elements import element
+    from .ions import ions_in
 
-    return element(symbol).is_metal
+    charges = {ion.charge for ion, _ in ions_in({symbol: 1}) if ion.charge > 0}
+    return element(symbol).is_metal and len(charges) > 1
 
 
 def _charge_words(charge: int) -> str:
@@ -678,7 +716,6 @@ def _charge_words(charge: int) -> str:
 _DECIMAL_COUNT = re.compile(r"(?<![\d.])(?:1|0\d*)\.\d")
 
 
-@lru_cache(maxsize=65536)
 def parse_formula(text: str) -> Formula:
     """Read a formula as inventories and supplier sheets write it.
 
@@ -701,6 +738,11 @@ def parse_formula(text: str) -> Formula:
     """
     if not isinstance(text, str):
         raise FormulaError(f"{text!r} is not a formula (expected text such as 'NaCl')", text=str(text))
+    return _parse_formula(text)
+
+
+@lru_cache(maxsize=65536)
+def _parse_formula(text: str) -> Formula:
     if len(text) > MAX_LENGTH:
         raise FormulaError(
             f"the text beginning '{text[:20]}' is {len(text)} characters long, too long to be a"
@@ -717,6 +759,26 @@ def parse_formula(text: str) -> Formula:
     if not normal:
         raise FormulaError("no formula given (the text is empty)", text=text)
     _check_brackets(text, normal, b)
+    roman = re.search(r"(?<=[A-Za-z])\((?:I{1,3}|IV|VI{0,3}|IX|X)\)", normal)
+    if roman:
+        raise FormulaError(
+            f"'{text}' has a Stock number '{roman.group()}' at position {b.pos(roman.start())}; a formula"
+            " gives the charge with its counts (FeCl3) or as a charge (Fe^3+), not in Roman numerals",
+            text=text,
+            position=b.pos(roman.start()),
+        )
+    # two dots together ('CaSO4..5H2O'); a dot before a decimal multiplier ('·.5H2O') is fine
+    doubled = re.search(
+        r"\.\s*\.|[" + re.escape(HYDRATE_DOTS) + r"]\s*[" + re.escape(HYDRATE_DOTS.replace(".", "")) + "]",
+        normal,
+    )
+    if doubled:
+        raise FormulaError(
+            f"'{text}' has two hydrate dots together at position {b.pos(doubled.start())}"
+            " (expected one dot and a multiplier, e.g. '·5H2O' or '·0.5H2O')",
+            text=text,
+            position=b.pos(doubled.start()),
+        )
     m = _DECIMAL_COUNT.search(normal)
     if m and m.start() > 0 and (normal[m.start() - 1].isalpha() or normal[m.start() - 1] in ")]"):
         raise FormulaError(
@@ -730,20 +792,50 @@ def parse_formula(text: str) -> Formula:
     except pp.ParseBaseException as exc:
         raise _syntax_error(text, normal, b, exc) from None
     parts = []
-    charge = _Charge(0, False)
+    charge = _NO_CHARGE
+    after_dot: tuple | None = None
     for node in tree:
         if isinstance(node, _Charge):
             charge = node
+        elif node[0] == "dot":
+            after_dot = node
         else:
-            parts.append(b.part(node))
+            part = b.part(node)
+            if after_dot is not None:
+                _check_decimal_count(text, normal, b, after_dot, part)
+            parts.append(part)
     if abs(charge.value) > MAX_CHARGE:
         raise FormulaError(
             f"the charge {charge.value:+d} in '{text}' is out of range (at most {MAX_CHARGE})", text=text
+        )
+    if charge.value == 0 and charge is not _NO_CHARGE:
+        raise FormulaError(
+            f"'{text}' is written with a charge of 0 (expected a charge such as 2- or 3+, or none)",
+            text=text,
         )
     formula = Formula(tuple(parts), charge.value, text)
     if charge.attached_sign:
         formula = _resolve_attached_charge(formula, text)
     return formula
+
+
+def _check_decimal_count(text: str, normal: str, b: _Builder, dot: tuple, part: Part) -> None:
+    """'Fe2.5O' is a decimal count, not Fe2 and an adduct of five O atoms: a
+    '.' between digits that would join a lone atom is refused."""
+    _, loc, char = dot
+    between_digits = char == "." and 0 < loc < len(normal) - 1 and normal[loc - 1].isdigit()
+    if (
+        between_digits
+        and normal[loc + 1].isdigit()
+        and len(part.items) == 1
+        and isinstance(part.items[0], Atom)
+    ):
+        raise FormulaError(
+            f"'{text}' has a decimal count at position {b.pos(loc - 1)}: decimal counts are not"
+            " read; if the '.' joins a hydrate part, write it with '·'",
+            text=text,
+            position=b.pos(loc - 1),
+        )
 
 
 def as_formula(formula: str | Formula) -> Formula:
@@ -768,19 +860,26 @@ def _symbols_casefolded() -> dict[str, str]:
 def _letter_run_readings(run: str, limit: int) -> list[str]:
     table = _symbols_casefolded()
     results: list[str] = []
+    dead: set[int] = set()  # positions from which no reading completes
 
-    def walk(i: int, acc: list[str]) -> None:
+    def walk(i: int, acc: list[str]) -> bool:
         if len(results) >= limit:
-            return
+            return True
         if i == len(run):
             results.append("".join(acc))
-            return
+            return True
+        if i in dead:
+            return False
+        found = False
         for n in (1, 2):
             piece = run[i : i + n].casefold()
             if len(piece) == n and piece in table:
                 acc.append(table[piece])
-                walk(i + n, acc)
+                found = walk(i + n, acc) or found
                 acc.pop()
+        if not found:
+            dead.add(i)
+        return found
 
     walk(0, [])
     return results
@@ -801,10 +900,17 @@ def case_readings(text: str) -> tuple[str, ...]:
     options: list[list[str]] = []
     for i, piece in enumerate(pieces):
         if i % 2 == 1:
-            if piece in ("x", "n", "y") and i + 1 < len(pieces) and i > 0:
-                options.append([piece])
-                continue
+            lead = ""
+            before = pieces[i - 1].rstrip()
+            if (
+                piece[0] in "xny"
+                and len(piece) > 1
+                and piece[1].isupper()
+                and (not before or before[-1] in HYDRATE_DOTS)
+            ):
+                lead, piece = piece[0], piece[1:]  # an unknown-count multiplier: 'xH2O'
             found = _letter_run_readings(piece, MAX_READINGS * 4)
+            found = [lead + f for f in found]
             if not found:
                 return ()
             options.append(found)

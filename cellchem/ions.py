@@ -221,6 +221,11 @@ def _by_name() -> dict[str, tuple[Ion, ...]]:
     return {k: tuple(v) for k, v in table.items()}
 
 
+def _say_which(ions: tuple[Ion, ...]) -> str:
+    """'give the charge' when the charge tells the ions apart, else 'say which'."""
+    return "give the charge" if len({i.charge for i in ions}) == len(ions) else "say which"
+
+
 def _choices_text(ions: tuple[Ion, ...]) -> str:
     return ", ".join(f"{ion.label} ({ion.name})" for ion in ions)
 
@@ -267,7 +272,7 @@ def find_ion(text: str, role: str | None = None) -> Ion:
             return named[0]
         raise UnknownIonError(
             f"'{raw}' names more than one ion: {_choices_text(named)}; say which"
-            f" (for example '{named[0].name}' or '{named[0].label}')",
+            f" (for example '{named[0].label}' or '{named[1].label}')",
             text=raw,
             choices=tuple(i.label for i in named),
         )
@@ -282,7 +287,7 @@ def find_ion(text: str, role: str | None = None) -> Ion:
         own = pick(own)
         if len(own) > 1:
             raise UnknownIonError(
-                f"'{raw}' forms more than one ion: {_choices_text(own)}; give the charge"
+                f"'{raw}' forms more than one ion: {_choices_text(own)}; {_say_which(own)}"
                 f" (for example '{own[0].name}' or '{own[0].label}')",
                 text=raw,
                 choices=tuple(i.label for i in own),

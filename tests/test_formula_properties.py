@@ -22,7 +22,7 @@ from hypothesis import strategies as st
 from cellchem import CellchemError, parse_formula
 from cellchem.errors import FormulaError
 
-FAST = settings(max_examples=250, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+FAST = settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 
 # The 118 element symbols (IUPAC; from memory).
 SYMBOLS = (

@@ -17,6 +17,8 @@ Sources of the check values (named again on each row):
   enclosed in square brackets, and "when ligands are polyatomic, their
   formulae are enclosed in parentheses".
   Sections cited "(from memory)" were recalled, not read, when writing.
+* GE = N. N. Greenwood, A. Earnshaw, Chemistry of the Elements, 2nd ed.
+  (Butterworth-Heinemann 1997), the chapters on the compounds named (from memory).
 * common practice = the formula printed on supplier labels and in school and
   university textbooks for that compound; "(from memory)" where recalled.
 """
@@ -163,8 +165,12 @@ SALTS = [
     ("magnesium", "nitride", "Mg3N2"),
     # aluminium nitride AlN, common practice (from memory)
     ("aluminium", "nitride", "AlN"),
-    # aluminium carbide Al4C3 (C 4-), common practice (from memory)
-    ("aluminium", "carbide", "Al4C3"),
+    # aluminium carbide Al4C3 (C 4-), common practice (from memory); 'carbide' alone is refused (below)
+    ("aluminium", "C4-", "Al4C3"),
+    # the same by the name with its charge number, IUPAC 2005 IR-5.3.3.2 (from memory)
+    ("aluminium", "carbide(4-)", "Al4C3"),
+    # beryllium carbide Be2C (C 4-), GE ch. 8 (from memory)
+    ("beryllium", "C4-", "Be2C"),
     # lithium hydride LiH, common practice (from memory)
     ("lithium", "hydride", "LiH"),
     # calcium hydride CaH2, common practice (from memory)
@@ -301,6 +307,11 @@ SALTS = [
     ("Pb2+", "O2 2-", "PbO2"),
     # calcium acetylide CaC2, common practice (from memory)
     ("calcium", "acetylide", "CaC2"),
+    # calcium carbide CaC2 by the formula of its anion, C2 2- (common practice, from memory)
+    ("calcium", "C2 2-", "CaC2"),
+    # sodium nitroprusside Na2[Fe(CN)5(NO)]: IUPAC 2005 IR-9.2.3.2 (read): "When ligands are polyatomic,
+    # their formulae are enclosed in parentheses"; the catalog itself writes [Fe(CN)5(NO)]
+    ("sodium", "nitroprusside", "Na2[Fe(CN)5(NO)]"),
     # sodium azide NaN3, common practice (from memory)
     ("sodium", "azide", "NaN3"),
 ]
@@ -308,42 +319,6 @@ SALTS = [
 
 @pytest.mark.parametrize("cation,anion,expected", SALTS, ids=[f"{c}+{a}" for c, a, _ in SALTS])
 def test_salt_formula(cation, anion, expected):
-    assert salt_formula(cation, anion) == expected
-
-
-# Rows where cellchem gives a wrong formula (reported; strict xfail keeps them visible).
-SALT_BUGS = [
-    pytest.param(
-        # IUPAC 2005 IR-9.2.3.2 (read): "When ligands are polyatomic, their formulae are enclosed in
-        # parentheses"; the catalog itself writes [Fe(CN)5(NO)]. Sodium nitroprusside.
-        "sodium",
-        "nitroprusside",
-        "Na2[Fe(CN)5(NO)]",
-        marks=pytest.mark.xfail(
-            reason="cellchem bug: salt_formula('sodium', 'nitroprusside') gives 'Na2[Fe(CN)5NO]',"
-            " dropping the parentheses of the polyatomic ligand NO (IUPAC 2005 IR-9.2.3.2)",
-            strict=True,
-        ),
-        id="nitroprusside-ligand-parentheses",
-    ),
-    pytest.param(
-        # calcium carbide is CaC2, the acetylide C2 2- (common practice, from memory; the catalog's own
-        # header note says a store entry "calcium carbide" means C2 2-); Ca2C does not exist.
-        "calcium",
-        "carbide",
-        "CaC2",
-        marks=pytest.mark.xfail(
-            reason="cellchem bug: salt_formula('calcium', 'carbide') gives 'Ca2C' (carbide read as C4-), a"
-            " compound that does not exist; calcium carbide is CaC2 (C2 2-)",
-            strict=True,
-        ),
-        id="calcium-carbide",
-    ),
-]
-
-
-@pytest.mark.parametrize("cation,anion,expected", SALT_BUGS)
-def test_salt_formula_known_bugs(cation, anion, expected):
     assert salt_formula(cation, anion) == expected
 
 
@@ -409,10 +384,45 @@ REFUSALS = [
     ),
     # element name for the anion: chlorine is Cl2, its ion chloride (IUPAC 2005 IR-5.3.3.1)
     ("sodium", "chlorine", "'chlorine' is the element; its ion is chloride (Cl-)"),
-    # element name oxygen: its ion oxide (IUPAC 2005 IR-5.3.3.2)
-    ("magnesium", "oxygen", "'oxygen' is the element; its ion is oxide (O2-)"),
-    # element name sulfur: its ion sulfide (IUPAC 2005 IR-5.3.3.2, from memory)
-    ("zinc", "sulfur", "'sulfur' is the element; its ion is sulfide (S2-)"),
+    # element name oxygen: its ions oxide, peroxide, superoxide and ozonide (IUPAC 2005 IR-5.3.3.2 and
+    # IR-5.3.3.3, from memory); see test_element_names_whose_ions_share_a_charge for the advice given
+    (
+        "magnesium",
+        "oxygen",
+        "'oxygen' forms more than one ion: O^2- (oxide), O2 2- (peroxide), O2^- (superoxide), O3- (ozonide);"
+        " give the charge (for example 'oxide' or 'O^2-')",
+    ),
+    # element name sulfur: its ions sulfide and disulfide (IUPAC 2005 IR-5.3.3.2 and IR-5.3.3.3, from
+    # memory; disulfide as in pyrite FeS2, GE ch. 25, from memory); see the same test
+    (
+        "zinc",
+        "sulfur",
+        "'sulfur' forms more than one ion: S2- (sulfide), S2 2- (disulfide); give the charge"
+        " (for example 'sulfide' or 'S2-')",
+    ),
+    # mercury without a charge: mercury(II) Hg2+ or dimercury(I) Hg2 2+ (IUPAC 2005 IR-5.3.2.3, from
+    # memory); the Stock numbers tell them apart
+    (
+        "mercury",
+        "chloride",
+        "'mercury' forms more than one ion: Hg2+ (mercury(II)), Hg2 2+ (dimercury(I)); give the charge"
+        " (for example 'mercury(II)' or 'Hg2+')",
+    ),
+    # 'carbide' is said of C 4- (aluminium carbide Al4C3) and of C2 2- (calcium carbide CaC2), GE ch. 8
+    # (from memory); see tests/test_ions.py::test_refusal_examples_resolve for the example offered
+    (
+        "aluminium",
+        "carbide",
+        "'carbide' names more than one ion: C4- (carbide), C2 2- (acetylide); say which"
+        " (for example 'carbide' or 'C4-')",
+    ),
+    # the same for calcium: a store's "calcium carbide" is CaC2, but the name alone does not say so
+    (
+        "calcium",
+        "carbide",
+        "'carbide' names more than one ion: C4- (carbide), C2 2- (acetylide); say which"
+        " (for example 'carbide' or 'C4-')",
+    ),
     # roles reversed, by name
     (
         "chloride",
@@ -446,6 +456,28 @@ REFUSALS = [
         "chloride",
         "'Fe^4+' is not an ion in the catalog; the catalog has Fe2+ (iron(II)), Fe3+ (iron(III))"
         " (see DEVELOPERS.md to add one)",
+    ),
+    # the same without the caret: Fe4 is no species, so the text is iron with charge 4+
+    (
+        "Fe4+",
+        "chloride",
+        "'Fe4+' is not an ion in the catalog; the catalog has Fe2+ (iron(II)), Fe3+ (iron(III))"
+        " (see DEVELOPERS.md to add one)",
+    ),
+    # a Stock number the catalog does not hold (IUPAC 2005 IR-5.4.2.2, from memory)
+    (
+        "iron(IV)",
+        "chloride",
+        "'iron(IV)' is not an ion in the catalog; the catalog has Fe2+ (iron(II)), Fe3+ (iron(III))"
+        " (see DEVELOPERS.md to add one)",
+    ),
+    # an ambiguous charge: superoxide O2 1- or oxide O 2- (IUPAC 2005 IR-5.3.3.2 and IR-5.3.3.3, from
+    # memory)
+    (
+        "magnesium",
+        "O2-",
+        "'O2-' is ambiguous: it reads as O2 with charge 1- (superoxide) or as O with charge 2- (oxide);"
+        " write 'O2^-' or 'O^2-'",
     ),
     # sulfate with a wrong charge: sulfate is SO4 2- (IUPAC 2005 Table IX, from memory)
     (
@@ -487,18 +519,12 @@ def test_refusal_lists_the_choices():
     assert info.value.text == "iron"
 
 
-# Refusals whose message is wrong or misleading (reported). Each test states what
-# the message must at least say; strict xfail keeps the bug visible.
+# What refusals must at least say: each test states it; the strict xfails are messages that are
+# wrong or misleading (reported).
 
 
-@pytest.mark.xfail(
-    reason="cellchem bug: 'Fe4+' is refused as an ambiguous formula ('is neither an ion name cellchem knows"
-    " nor a formula ... reads as Fe4 with charge + or as Fe with charge 4+; write 'Fe4^+' or 'Fe^4+''),"
-    " offering an impossible Fe4 reading, instead of saying, as for 'Fe^4+', that the catalog has"
-    " Fe2+ (iron(II)) and Fe3+ (iron(III))",
-    strict=True,
-)
 def test_fe4_plus_message_names_the_iron_ions():
+    # 'Fe4+' is iron with charge 4+, not a species Fe4: the message names the iron ions the catalog has
     with pytest.raises(CellchemError) as info:
         salt_formula("Fe4+", "chloride")
     message = str(info.value)
@@ -507,13 +533,8 @@ def test_fe4_plus_message_names_the_iron_ions():
     assert "neither an ion name" not in message
 
 
-@pytest.mark.xfail(
-    reason="cellchem bug: salt_formula('mercury', 'chloride') says \"'mercury' is the element; its ion is"
-    ' mercury(II) (Hg2+)", but mercury forms two cations, Hg2 2+ (dimercury(I)) and Hg2+ (mercury(II));'
-    " it should be refused like 'iron', listing both",
-    strict=True,
-)
 def test_mercury_without_charge_lists_both_cations():
+    # mercury is refused like 'iron', listing both its cations
     # mercury(I) is Hg2 2+, IUPAC 2005 IR-5.3.2.3 (from memory); mercury(II) Hg2+ (common practice)
     with pytest.raises(CellchemError) as info:
         salt_formula("mercury", "chloride")
@@ -522,14 +543,10 @@ def test_mercury_without_charge_lists_both_cations():
     assert "is the element" not in message
 
 
-@pytest.mark.xfail(
-    reason="cellchem bug: salt_formula('iron(IV)', 'chloride') answers \"... did you mean 'IrON(IV)'?\""
-    " (iridium, oxygen, nitrogen) instead of saying iron has no (IV) ion in the catalog, which has Fe2+"
-    " and Fe3+",
-    strict=True,
-)
 def test_unknown_stock_number_names_the_metal_ions():
-    # iron forms Fe2+ and Fe3+ in the salts a store holds (common practice)
+    # a Stock number the catalog does not hold is refused with the metal's ions, not read as symbols
+    # (IrON is iridium, oxygen, nitrogen); iron forms Fe2+ and Fe3+ in the salts a store holds
+    # (common practice)
     with pytest.raises(CellchemError) as info:
         salt_formula("iron(IV)", "chloride")
     message = str(info.value)
@@ -537,15 +554,36 @@ def test_unknown_stock_number_names_the_metal_ions():
     assert "Fe2+" in message and "Fe3+" in message
 
 
-@pytest.mark.xfail(
-    reason="cellchem bug: an ambiguous charge such as 'O2-' is reported as \"'O2-' is neither an ion name"
-    ' cellchem knows nor a formula (...)" although it is a formula with two catalog readings; the'
-    " inner text (superoxide or oxide) is right, the lead-in is wrong",
-    strict=True,
-)
 def test_ambiguous_charge_is_not_called_a_non_formula():
+    # an ambiguous charge is a formula with two catalog readings, and the message says so
     with pytest.raises(CellchemError) as info:
         salt_formula("magnesium", "O2-")
     # the readings offered are right: oxide O 2- or superoxide O2 1- (IUPAC 2005 IR-5.3.3.3, from memory)
     assert "(superoxide) or as O with charge 2- (oxide); write 'O2^-' or 'O^2-'" in str(info.value)
     assert not str(info.value).startswith("'O2-' is neither an ion name cellchem knows nor a formula")
+
+
+@pytest.mark.xfail(
+    reason="cellchem bug (misleading message): an element name whose catalog ions share a charge is"
+    " refused with 'give the charge', which cannot choose between them: 'oxygen' (O^2- and O2 2-, both"
+    " 2-), 'sulfur' (S2- and S2 2-), 'iodine' (I- and I3-); names of several ions say 'say which'",
+    strict=True,
+)
+@pytest.mark.parametrize(
+    "cation,anion,shared",
+    [
+        # oxide O 2- and peroxide O2 2- (IUPAC 2005 IR-5.3.3.2 and IR-5.3.3.3, from memory)
+        ("magnesium", "oxygen", ("O^2-", "O2 2-")),
+        # sulfide S 2- and disulfide S2 2- (IUPAC 2005 IR-5.3.3.2 and IR-5.3.3.3, from memory)
+        ("zinc", "sulfur", ("S2-", "S2 2-")),
+        # iodide I- and triiodide I3- (IUPAC 2005 IR-5.3.3.3, from memory)
+        ("potassium", "iodine", ("I-", "I3-")),
+    ],
+    ids=["oxygen", "sulfur", "iodine"],
+)
+def test_element_names_whose_ions_share_a_charge(cation, anion, shared):
+    with pytest.raises(UnknownIonError) as info:
+        salt_formula(cation, anion)
+    # the ions are listed (right), but a charge cannot tell apart two ions of one charge
+    assert set(shared) <= set(info.value.choices)
+    assert "give the charge" not in str(info.value)
