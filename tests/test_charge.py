@@ -745,27 +745,15 @@ def test_oxidation_state(formula, symbol, mean, expected):
     assert type(value) is (int if Fraction(expected).denominator == 1 else Fraction)
 
 
-OXIDATION_BUGS = [
-    pytest.param(
-        # arsine AsH3 is a molecular gas; by the rules H is +1 with a non-metal and As is -3 (HS, from
-        # memory); arsenic's Pauling electronegativity (2.18, from memory) is above the 2.1 below which
-        # charge.py itself makes H -1
-        "AsH3",
-        "As",
-        -3,
-        marks=pytest.mark.xfail(
-            reason="cellchem bug: oxidation_state('AsH3', 'As') is +3, because charge_balance('AsH3') now"
-            " reads arsine as ionic 'As3+ + 3 H-' (arsenic forms catalog cations); arsine is molecular,"
-            " As -3 by the rules",
-            strict=True,
-        ),
-        id="As-in-AsH3",
-    ),
+OXIDATION_HYDRIDES = [
+    # arsine AsH3 is a molecular gas; by the rules H is +1 with a non-metal and As is -3 (HS, from
+    # memory); hydride H- stands beside metal cations only
+    pytest.param("AsH3", "As", -3, id="As-in-AsH3"),
 ]
 
 
-@pytest.mark.parametrize("formula,symbol,expected", OXIDATION_BUGS)
-def test_oxidation_state_known_bugs(formula, symbol, expected):
+@pytest.mark.parametrize("formula,symbol,expected", OXIDATION_HYDRIDES)
+def test_oxidation_state_of_molecular_hydrides(formula, symbol, expected):
     assert oxidation_state(formula, symbol) == expected
 
 
