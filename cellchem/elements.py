@@ -15,7 +15,7 @@ from dataclasses import dataclass
 from functools import cache
 
 from .errors import CellchemError
-from .tables import read_table, table_header
+from .tables import read_table, split_names, table_header
 
 STANDARD = "standard"
 CONVENTIONAL = "conventional"
@@ -86,7 +86,7 @@ def _element_from_row(row: dict[str, str]) -> Element:
         z=int(row["z"]),
         symbol=row["symbol"],
         name=row["name"],
-        variants=tuple(v.strip() for v in row["variants"].split("|") if v.strip()),
+        variants=split_names(row["variants"]),
         group=int(row["group"]) if row["group"] else None,
         period=int(row["period"]),
         atomic_weight=weight,

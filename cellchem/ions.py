@@ -17,7 +17,7 @@ from math import gcd
 from .elements import element, is_symbol
 from .errors import CellchemError, UnknownIonError
 from .formula import Atom, Formula, Group, Number, parse_formula, render_items
-from .tables import read_table
+from .tables import read_table, split_names
 
 CountsKey = tuple[tuple[str, Number], ...]
 
@@ -108,7 +108,7 @@ def _ion_from_row(row: dict[str, str]) -> Ion:
         charge=int(row["charge"]),
         name=row["name"],
         legacy_name=row.get("legacy_name", ""),
-        other_names=tuple(n.strip() for n in row.get("other_names", "").split("|") if n.strip()),
+        other_names=split_names(row.get("other_names")),
         source=row.get("source", ""),
     )
 

@@ -32,7 +32,7 @@ from .elements import element, symbols
 from .errors import CellchemError
 from .formula import Atom, Formula, Group, Item, Number, as_formula, parse_formula, render_items
 from .ions import Ion, catalog, counts_key, ion_term, ions_in, lookup
-from .tables import read_table
+from .tables import read_table, split_names
 
 # ---------------------------------------------------------------------------
 # Results
@@ -168,9 +168,8 @@ def _ligands() -> tuple[dict[str, tuple[Formula, int, str]], dict[tuple, tuple[s
         charge = int(row["charge"])
         name = row["name"].casefold()
         by_name[name] = (f, charge, row["name"])
-        for other in row.get("other_names", "").split("|"):
-            if other.strip():
-                by_name.setdefault(other.strip().casefold(), (f, charge, row["name"]))
+        for other in split_names(row.get("other_names")):
+            by_name.setdefault(other.casefold(), (f, charge, row["name"]))
         if row.get("abbreviation"):
             by_name.setdefault(row["abbreviation"].strip().casefold(), (f, charge, row["name"]))
         by_key.setdefault(counts_key(f.counts), (row["name"], charge))
@@ -185,9 +184,8 @@ def _ate_names() -> tuple[dict[str, str], dict[str, str]]:
     for row in read_table("metal_anion_names.csv"):
         forward[row["symbol"]] = row["ate_name"]
         back[row["ate_name"].casefold()] = row["symbol"]
-        for other in row.get("other_names", "").split("|"):
-            if other.strip():
-                back.setdefault(other.strip().casefold(), row["symbol"])
+        for other in split_names(row.get("other_names")):
+            back.setdefault(other.casefold(), row["symbol"])
     return forward, back
 
 
@@ -198,9 +196,8 @@ def _acids() -> tuple[dict[str, str], dict[tuple, str]]:
     by_key: dict[tuple, str] = {}
     for row in read_table("acids.csv"):
         by_name[_fold(row["name"])] = row["formula"]
-        for other in row.get("other_names", "").split("|"):
-            if other.strip():
-                by_name.setdefault(_fold(other), row["formula"])
+        for other in split_names(row.get("other_names")):
+            by_name.setdefault(_fold(other), row["formula"])
         key = counts_key(parse_formula(row["formula"]).counts)
         by_key.setdefault(key, row["name"])
     return by_name, by_key
@@ -212,9 +209,8 @@ def _trivial() -> dict[str, tuple[str, str]]:
     table: dict[str, tuple[str, str]] = {}
     for row in read_table("trivial_names.csv"):
         table[_fold(row["name"])] = (row["formula"], row["name"])
-        for other in row.get("other_names", "").split("|"):
-            if other.strip():
-                table.setdefault(_fold(other), (row["formula"], row["name"]))
+        for other in split_names(row.get("other_names")):
+            table.setdefault(_fold(other), (row["formula"], row["name"]))
     return table
 
 
@@ -226,9 +222,8 @@ def _named() -> tuple[dict[str, str], dict[tuple, str]]:
     by_key: dict[tuple, str] = {}
     for row in read_table("named_compounds.csv"):
         by_name[_fold(row["name"])] = row["formula"]
-        for other in row.get("other_names", "").split("|"):
-            if other.strip():
-                by_name.setdefault(_fold(other), row["formula"])
+        for other in split_names(row.get("other_names")):
+            by_name.setdefault(_fold(other), row["formula"])
         if row.get("write", "yes") != "no":
             by_key.setdefault(_formula_key(row["formula"]), row["name"])
     return by_name, by_key

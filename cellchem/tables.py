@@ -38,3 +38,8 @@ def table_header(filename: str) -> str:
             break
         header.append(line[1:].strip())
     return "\n".join(header)
+
+
+def split_names(cell: str | None) -> tuple[str, ...]:
+    """The names in a ``|``-separated cell (``other_names``, ``variants``), stripped."""
+    return tuple(name.strip() for name in (cell or "").split("|") if name.strip())
