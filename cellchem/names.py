@@ -257,7 +257,7 @@ _DASHES = "‐‑‒–−"
 
 def _fold(text: str) -> str:
     """Case-fold, NFKC, plain quotes and hyphens, single spaces, IUPAC spelling."""
-    s = unicodedata.normalize("NFKC", text).translate(_QUOTES)
+    s = unicodedata.normalize("NFKC", text.replace("½", " 0.5")).translate(_QUOTES)
     for d in _DASHES:
         s = s.replace(d, "-")
     s = s.replace("\u00a0", " ").casefold()
@@ -301,7 +301,7 @@ def _stock(s: str) -> tuple[str, list[str]]:
             return "(" + _ROMAN[n].lower() + ")"
         return m.group(0)
 
-    s = re.sub(r"(?<=[a-z])\((\d)(\+?)\)", arabic, s)
+    s = re.sub(r"(?<=[a-z])\(\+?(\d)(\+?)\)", arabic, s)
     return s, forms
 
 
@@ -480,10 +480,10 @@ def _lookup_piece(phrase: str) -> list[_Piece]:
             pieces.append(_Piece("open", None, _element_names()[m.group(1)], stock=values, text=phrase))
     sym = _element_names().get(phrase)
     if sym is not None:
-        cations = _monatomic(sym, +1)
+        cations = [ion for ion in catalog() if ion.charge > 0 and tuple(ion.formula.counts) == (sym,)]
         if len(cations) > 1 or not cations:
             pieces.append(_Piece("open" if cations else "element", None, sym, text=phrase))
-        elif not element(sym).is_metal:
+        elif not element(sym).is_metal and not pieces:
             pieces.append(_Piece("element", None, sym, text=phrase))
     return pieces
 
@@ -529,6 +529,8 @@ def _oxoanion_by_state(phrase: str) -> tuple[Ion, tuple[str, ...]] | None:
 def _pieces_for(phrase: str) -> list[_Piece]:
     found = _lookup_piece(phrase)
     if found:
+        if " " not in phrase and re.match(r"(?:di|tri|tetra|penta|hexa)", phrase):
+            return found + _prefixed_pieces(phrase)
         return found
     m = re.fullmatch(r"([a-z]+?kis|bis|tris)\((.+)\)", phrase)
     if m and m.group(1) in _complex_prefix_values():
@@ -538,6 +540,13 @@ def _pieces_for(phrase: str) -> list[_Piece]:
         return found
     if " " in phrase:
         return found
+    return found + _prefixed_pieces(phrase)
+
+
+def _prefixed_pieces(phrase: str) -> list[_Piece]:
+    """Readings of one word as a multiplicative prefix and a name:
+    'disulfide' as two sulfide (CS2) as well as the disulfide ion (FeS2)."""
+    found: list[_Piece] = []
     for n, rest in _strip_prefix(phrase):
         for piece in _lookup_piece(rest):
             if piece.ion is not None and piece.ion.is_complex:
@@ -779,7 +788,8 @@ def complex_name(symbol: str, ligand_items: list[Item], charge: int) -> str:
     in alphabetical order with multiplicative prefixes, then the central atom
     (its '-ate' name in an anion) and its oxidation state as a Stock number
     where the central atom has more than one common charge or is a d-block or
-    heavy p-block metal."""
+    heavy p-block metal (silver too, diamminesilver(I), as stores write it;
+    not Sc, Y, Zn, Cd, whose one charge IUPAC 2005 IR-9.2.2.4 lets go unsaid)."""
     simple, complex_ = _prefixes()
     parts = []
     ligand_charge = 0
@@ -817,7 +827,7 @@ def complex_name(symbol: str, ligand_items: list[Item], charge: int) -> str:
         centre = el.name
     charges = [i.charge for i in _monatomic(symbol, +1)]
     d_block = (el.group is not None and 3 <= el.group <= 12) or symbol in ("Sn", "Sb", "Pb", "Tl", "Bi")
-    if len(charges) > 1 or (d_block and symbol not in ("Sc", "Y", "Zn", "Cd", "Ag")) or ox not in charges:
+    if len(charges) > 1 or (d_block and symbol not in ("Sc", "Y", "Zn", "Cd")) or ox not in charges:
         centre += f"({_ROMAN.get(ox, str(ox))})" if ox > 0 else f"({ox})"
     return "".join(words) + centre
 
@@ -887,7 +897,9 @@ def _read_name(name: str) -> NameReading:
             try:
                 reading = _build(text, pieces, water, qualifiers, forms, chunk_order != chunks)
                 built.append(reading)
-                sized.append((reading, len(pieces)))
+                # fewest pieces, then fewest counts read from prefixes ('dichromate'
+                # is the dichromate ion before it is two chromate ions)
+                sized.append((reading, (len(pieces), sum(1 for p in pieces if p.count is not None))))
             except CellchemError as exc:
                 errors.append(exc)
         if built:
@@ -907,7 +919,10 @@ def _read_name(name: str) -> NameReading:
         raise NameError_(
             f"'{text}' can be read more than one way: {listing}", text=text, choices=tuple(unique)
         )
-    raise errors[0]
+    first = errors[0]
+    if f"'{text}'" not in str(first):
+        raise NameError_(f"'{text}' cannot be read: {first}", text=text, choices=first.choices) from first
+    raise first
 
 
 def _read_addition(text: str, rest: str, qualifiers: list[Qualifier], forms: list[str]) -> NameReading:
@@ -941,6 +956,23 @@ def _read_addition(text: str, rest: str, qualifiers: list[Qualifier], forms: lis
     )
 
 
+def _canonical(f: Formula) -> Formula:
+    """A table formula written as the rules write it (alum KAl(SO4)2·12H2O as
+    AlK(SO4)2·12H2O), so a trivial name and its systematic name agree."""
+    if (len(f.parts) > 1 and not all(p.is_water for p in f.parts[1:])) or f.charge:
+        return f
+    balance = charge_balance(f.anhydrous())
+    if balance.kind != "ionic" or any(s.ion is None for s in balance.charges):
+        return f
+    try:
+        rebuilt = _assemble([(s.ion, int(s.count)) for s in balance.charges])  # type: ignore[misc]
+    except (CellchemError, TypeError, ValueError):
+        return f
+    if counts_key(rebuilt.counts) != counts_key(f.anhydrous().counts):
+        return f
+    return rebuilt.with_water(f.water) if f.water else rebuilt
+
+
 def _plain(rest: str) -> str:
     """Commas (outside Stock numbers such as '(ii,iii)') as spaces, single spaces."""
     return re.sub(r"\s+", " ", re.sub(r",(?![^()]*\))", " ", rest)).strip(" ,")
@@ -960,12 +992,19 @@ def _whole_lookup(
         formula_text = found[0] if isinstance(found, tuple) else found
         f = parse_formula(formula_text)
         extra = [f"{label} '{plain}'"] if label else []
-        if kind == "acid" and charge_balance(f).kind != "ionic":
+        balance = charge_balance(f)
+        if kind == "acid" and balance.kind != "ionic":
             kind = ""
         if not kind:
-            balance = charge_balance(f)
             kind = {"ionic": "salt", "molecular": "molecular", "element": "element"}.get(balance.kind, "salt")
+            cations = [c for c in balance.charges if c.charge > 0]
+            if kind == "salt" and cations and all(c.ion is not None and c.ion.text == "H" for c in cations):
+                kind = "acid"
+        if kind == "trivial":
+            f = _canonical(f)
         kept = [q for q in qualifiers if q.kind != "state" or q.text not in plain]
+        if kind == "acid" or "solution" in plain:
+            kept = [Qualifier("concentration", q.text) if q.kind == "purity" else q for q in kept]
         return _whole_reading(text, plain, kind, f, water, kept, forms + extra)
     return None
 
@@ -1004,7 +1043,7 @@ def _whole_reading(
     if water != "" and f.water != water:
         if water == 0:
             f = f.anhydrous()
-        elif kind != "acid":
+        else:
             f = f.with_water(water)  # type: ignore[arg-type]
     cations, anions, elements_ = _components_of(f)
     return NameReading(
@@ -1046,7 +1085,7 @@ def _components_of(f: Formula) -> tuple[tuple[Component, ...], tuple[Component, 
 
 def _candidates(symbol: str, others: list[_Piece]) -> list[tuple[str, str]]:
     out = []
-    for ion in _monatomic(symbol, +1):
+    for ion in [i for i in catalog() if i.charge > 0 and tuple(i.formula.counts) == (symbol,)]:
         try:
             pieces = [_Piece("cation", ion), *others]
             formula = _formula_of(pieces)
@@ -1070,6 +1109,9 @@ def _build(
     for p in pieces:
         forms.extend(p.forms)
     roles = [p.role for p in pieces]
+    named = [p.ion for p in pieces if p.ion is not None]
+    if len(named) != len(set(named)):
+        raise _unknown(text, "it names the same ion twice")
     basicity = [q.text for q in qualifiers if q.kind == "basicity"]
     if basicity:
         pieces = _apply_basicity(text, pieces, basicity[0])
@@ -1097,6 +1139,8 @@ def _build(
             seen_anion = True
         elif seen_anion and p.role in ("cation", "open"):
             raise _unknown(text, "a cation name follows an anion name (expected cations first)")
+    if not any(r in ("cation", "open", "element") for r in roles):
+        raise _unknown(text, "it names anions but no cation")
     if "anion" not in roles:
         if all(r == "element" for r in roles) or any(r == "element" for r in roles):
             raise _unknown(text, "it names no anion")
@@ -1386,7 +1430,7 @@ def _name(f: Formula, legacy: bool) -> str:
         single = Formula((part.__class__(part.items, 1),), 0, render_items(part.items))
         own = _named()[1].get((counts_key(single.counts), 0))
         parts_names.append(own or _salt_name(single, text, legacy))
-    if len(parts_names) == 1:
+    if len(parts_names) == 1 and base.parts[0].multiplier == 1:
         return parts_names[0] + _hydrate_suffix(f.water)
     # an addition compound (IUPAC 2005 IR-5.5): names joined by em dashes and
     # the ratio of the parts in whole numbers
@@ -1505,7 +1549,12 @@ def _prefixed_name(cations, anions, legacy: bool, f: Formula, text: str) -> str:
             return f"{complex_[n]}({name})"
         return simple[n] + name
 
-    words = sorted((word(_share_name(s, legacy, f), s.count) for s in cations), key=_sort_name)
+    def cation_name(share) -> str:
+        if share.ion is not None and share.ion.is_monatomic:
+            return element(share.ion.text).name  # the counts say the charge: 'tetraarsenic hexaoxide'
+        return _share_name(share, legacy, f)
+
+    words = sorted((word(cation_name(s), s.count) for s in cations), key=_sort_name)
     words += sorted((word(_share_name(s, legacy, f), s.count) for s in anions), key=_sort_name)
     return " ".join(words)
 
@@ -1528,8 +1577,10 @@ def _molecular_name(f: Formula, text: str) -> str:
     if n1 != 1:
         lead = simple[int(n1)] + lead
     prefix = simple[int(n2)]
-    if prefix.endswith(("a", "o")) and ide.startswith("o") and prefix == "mono":
-        prefix = prefix[:-1]  # 'monoxide' (IUPAC 2005 IR-5.2)
+    if prefix == "mono":
+        # 'carbon monoxide' (IUPAC 2005 IR-5.2 allows the elided 'monoxide');
+        # otherwise one of each needs no prefix: 'silicon carbide'
+        prefix = "mon" if ide == "oxide" else ""
     return f"{lead} {prefix}{ide}"
 
 
