@@ -323,6 +323,13 @@ _HYDRATE_FORMULA = re.compile(
 )
 
 
+def _as_written(q: Qualifier, text: str) -> Qualifier:
+    """The qualifier as the input wrote it ('0.1 M', not the folded '0.1 m')."""
+    pattern = r"\s*".join(re.escape(part) for part in q.text.split())
+    m = re.search(pattern, unicodedata.normalize("NFKC", text), re.IGNORECASE)
+    return Qualifier(q.kind, m.group(0)) if m else q
+
+
 def _number(text: str) -> Number | None:
     if text in ("x", "n"):
         return None
@@ -858,7 +865,7 @@ def read_name(name: str) -> NameReading:
 
     >>> r = read_name("Copper (II) Sulphate, 5-hydrate, AR")
     >>> r.formula, [q.text for q in r.qualifiers]
-    ('CuSO4·5H2O', ['5-hydrate', 'ar'])
+    ('CuSO4·5H2O', ['5-hydrate', 'AR'])
     """
     if not isinstance(name, str) or not name.strip():
         raise NameError_("no name given (the text is empty)", text=str(name))
@@ -873,6 +880,7 @@ def _read_name(name: str) -> NameReading:
     folded, stock_forms = _stock(folded)
     forms.extend(stock_forms)
     rest, qualifiers, water = _set_aside(folded)
+    qualifiers = [_as_written(q, text) for q in qualifiers]
     if not rest:
         raise _unknown(text, "only qualifiers were found (" + ", ".join(q.text for q in qualifiers) + ")")
 

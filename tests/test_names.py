@@ -489,10 +489,6 @@ def test_read_name_analysis(text):
             assert any(word in f.casefold() for f in r.forms), (word, r.forms)
 
 
-@_bug(
-    "qualifier text is case-folded ('0.1 m'), which loses molar M against molal m; the Qualifier "
-    "docstring says the text is as found"
-)
 def test_qualifier_text_as_found():
     r = read_name("sodium hydroxide solution 0.1 M")
     assert ("concentration", "0.1 M") in [(q.kind, q.text) for q in r.qualifiers]
@@ -812,7 +808,7 @@ REFUSALS = {
     ),
     "XK-2231": ("'XK-2231' is not a name cellchem can read: no ion, element or known compound answers to "
                 "'xk-2231'" + _UNREAD, ()),
-    "AR grade": ("'AR grade' is not a name cellchem can read: only qualifiers were found (ar grade)", ()),
+    "AR grade": ("'AR grade' is not a name cellchem can read: only qualifiers were found (AR grade)", ()),
     "": ("no name given (the text is empty)", ()),
     "   ": ("no name given (the text is empty)", ()),
     "chloride sodium": (
