@@ -15,6 +15,7 @@ up in the element table is a separate step, so that a message can say
 
 from __future__ import annotations
 
+import math
 import re
 import unicodedata
 from dataclasses import dataclass, field
@@ -158,6 +159,8 @@ class Formula:
         if n == 0:
             return base
         if n is not None:
+            if isinstance(n, float) and not math.isfinite(n):
+                raise FormulaError(f"a water count of {n} is not a number of waters")
             value = Fraction(str(n)) if isinstance(n, float) else Fraction(n)
             if value <= 0 or value > MAX_COUNT:
                 raise FormulaError(
@@ -759,13 +762,14 @@ def _parse_formula(text: str) -> Formula:
     if not normal:
         raise FormulaError("no formula given (the text is empty)", text=text)
     _check_brackets(text, normal, b)
-    roman = re.search(r"(?<=[A-Za-z])\((?:I{1,3}|IV|VI{0,3}|IX|X)\)", normal)
+    # a Stock number, with or without a space ('Fe(III)', 'Fe (III)'); '(I)2' is iodine, counted
+    roman = re.search(r"(?<=[A-Za-z])\s*(\((?:I{1,3}|IV|VI{0,3}|IX|X)\))(?!\d)", normal)
     if roman:
         raise FormulaError(
-            f"'{text}' has a Stock number '{roman.group()}' at position {b.pos(roman.start())}; a formula"
+            f"'{text}' has a Stock number '{roman.group(1)}' at position {b.pos(roman.start(1))}; a formula"
             " gives the charge with its counts (FeCl3) or as a charge (Fe^3+), not in Roman numerals",
             text=text,
-            position=b.pos(roman.start()),
+            position=b.pos(roman.start(1)),
         )
     # two dots together ('CaSO4..5H2O'); a dot before a decimal multiplier ('·.5H2O') is fine
     doubled = re.search(
