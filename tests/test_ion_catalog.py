@@ -237,7 +237,7 @@ def test_single_charge_metals_have_no_stock_number():
 
 
 def test_stock_number_matches_charge():
-    for el, rows in _cation_rows_by_element().items():
+    for _el, rows in _cation_rows_by_element().items():
         for r in rows:
             m = STOCK_RE.search(r["name"])
             if m:
@@ -290,9 +290,9 @@ def test_complex_oxidation_numbers_match_charge():
         if not split or not m:
             continue
         _, ligands = split
-        if not all(l in LIGAND_CHARGE for l, _ in ligands):
+        if not all(lig in LIGAND_CHARGE for lig, _ in ligands):
             continue
-        ox = int(r["charge"]) - sum(LIGAND_CHARGE[l] * n for l, n in ligands)
+        ox = int(r["charge"]) - sum(LIGAND_CHARGE[lig] * n for lig, n in ligands)
         assert ox == ROMAN[m.group(1)], (r["formula"], r["charge"], r["name"])
         checked += 1
     assert checked >= 15
