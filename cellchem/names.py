@@ -158,6 +158,14 @@ def _hydrate_names() -> dict[Number | None, str]:
     return names
 
 
+def _index(table: dict, row: dict[str, str], value, fold=str.casefold) -> None:
+    """Index ``value`` under a row's name and its other names; an other name never
+    displaces an entry already in the table."""
+    table[fold(row["name"])] = value
+    for other in split_names(row.get("other_names")):
+        table.setdefault(fold(other), value)
+
+
 @cache
 def _ligands() -> tuple[dict[str, tuple[Formula, int, str]], dict[tuple, tuple[str, int]]]:
     """By name (and older names): (formula, charge, name); by counts key: (name, charge)."""
@@ -166,10 +174,7 @@ def _ligands() -> tuple[dict[str, tuple[Formula, int, str]], dict[tuple, tuple[s
     for row in read_table("ligands.csv"):
         f = parse_formula(row["formula"])
         charge = int(row["charge"])
-        name = row["name"].casefold()
-        by_name[name] = (f, charge, row["name"])
-        for other in split_names(row.get("other_names")):
-            by_name.setdefault(other.casefold(), (f, charge, row["name"]))
+        _index(by_name, row, (f, charge, row["name"]))
         if row.get("abbreviation"):
             by_name.setdefault(row["abbreviation"].strip().casefold(), (f, charge, row["name"]))
         by_key.setdefault(counts_key(f.counts), (row["name"], charge))
@@ -183,9 +188,7 @@ def _ate_names() -> tuple[dict[str, str], dict[str, str]]:
     back: dict[str, str] = {}
     for row in read_table("metal_anion_names.csv"):
         forward[row["symbol"]] = row["ate_name"]
-        back[row["ate_name"].casefold()] = row["symbol"]
-        for other in split_names(row.get("other_names")):
-            back.setdefault(other.casefold(), row["symbol"])
+        _index(back, {**row, "name": row["ate_name"]}, row["symbol"])
     return forward, back
 
 
@@ -195,9 +198,7 @@ def _acids() -> tuple[dict[str, str], dict[tuple, str]]:
     by_name: dict[str, str] = {}
     by_key: dict[tuple, str] = {}
     for row in read_table("acids.csv"):
-        by_name[_fold(row["name"])] = row["formula"]
-        for other in split_names(row.get("other_names")):
-            by_name.setdefault(_fold(other), row["formula"])
+        _index(by_name, row, row["formula"], _fold)
         key = counts_key(parse_formula(row["formula"]).counts)
         by_key.setdefault(key, row["name"])
     return by_name, by_key
@@ -208,9 +209,7 @@ def _trivial() -> dict[str, tuple[str, str]]:
     """trivial name -> (formula text, the name as the table writes it)."""
     table: dict[str, tuple[str, str]] = {}
     for row in read_table("trivial_names.csv"):
-        table[_fold(row["name"])] = (row["formula"], row["name"])
-        for other in split_names(row.get("other_names")):
-            table.setdefault(_fold(other), (row["formula"], row["name"]))
+        _index(table, row, (row["formula"], row["name"]), _fold)
     return table
 
 
@@ -221,9 +220,7 @@ def _named() -> tuple[dict[str, str], dict[tuple, str]]:
     by_name: dict[str, str] = {}
     by_key: dict[tuple, str] = {}
     for row in read_table("named_compounds.csv"):
-        by_name[_fold(row["name"])] = row["formula"]
-        for other in split_names(row.get("other_names")):
-            by_name.setdefault(_fold(other), row["formula"])
+        _index(by_name, row, row["formula"], _fold)
         if row.get("write", "yes") != "no":
             by_key.setdefault(_formula_key(row["formula"]), row["name"])
     return by_name, by_key
@@ -611,18 +608,16 @@ def _complex_grammar() -> pp.ParserElement:
     return grammar
 
 
-_NUMBER_OF_PREFIX: dict[str, int] = {}
+@cache
+def _prefix_numbers() -> dict[str, int]:
+    simple, complex_ = _prefixes()
+    numbers = {word: n for n, word in simple.items()}
+    numbers.update({word: n for n, word in complex_.items() if word})
+    return numbers
 
 
 def _prefix_number(p: str) -> int:
-    if not _NUMBER_OF_PREFIX:
-        simple, complex_ = _prefixes()
-        for n, word in simple.items():
-            _NUMBER_OF_PREFIX[word] = n
-        for n, word in complex_.items():
-            if word:
-                _NUMBER_OF_PREFIX[word] = n
-    return _NUMBER_OF_PREFIX.get(p, 1) if p else 1
+    return _prefix_numbers().get(p, 1) if p else 1
 
 
 @lru_cache(maxsize=4096)
