@@ -2,33 +2,61 @@
 
 The public core: read formulas, molar masses and compositions from standard
 atomic weights, the ion catalog and salts by charge balance, oxidation states,
-and inorganic names both ways.
+inorganic names both ways, and solutions of ions (dissociation, ionic
+strength, activity, conductivity, recipes, dilution, ion balance).
 Pure functions over plain values; no spreadsheet library is imported here.
 """
 
+from .activity import activity_coefficient, mean_activity_coefficient
 from .charge import ChargeBalance, charge_balance, net_charge, oxidation_state
+from .conductivity import conductivity
 from .elements import Element, element
 from .errors import CellchemError
 from .formula import Formula, parse_formula
+from .ionbalance import IonBalance, ion_balance
 from .ions import Ion, find_ion, salt_formula
 from .mass import composition, mass_fraction, molar_mass
 from .names import NameReading, formula_from_name, name_from_formula, read_name
+from .recipes import (
+    Dilution,
+    Recipe,
+    concentration_from_mass,
+    convert_concentration,
+    dilution,
+    mass_for_solution,
+)
+from .solutions import Dissociation, Value, ionic_strength, ions_of
 
 __version__ = "0.1.0"
 
 __all__ = [
     "CellchemError",
     "ChargeBalance",
+    "Dilution",
+    "Dissociation",
     "Element",
     "Formula",
     "Ion",
+    "IonBalance",
     "NameReading",
+    "Recipe",
+    "Value",
+    "activity_coefficient",
     "charge_balance",
     "composition",
+    "concentration_from_mass",
+    "conductivity",
+    "convert_concentration",
+    "dilution",
     "element",
     "find_ion",
     "formula_from_name",
+    "ion_balance",
+    "ionic_strength",
+    "ions_of",
+    "mass_for_solution",
     "mass_fraction",
+    "mean_activity_coefficient",
     "molar_mass",
     "name_from_formula",
     "net_charge",

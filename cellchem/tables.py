@@ -23,7 +23,12 @@ def read_table(filename: str) -> tuple[dict[str, str], ...]:
     lines = [line for line in text.splitlines() if line.strip() and not line.startswith("#")]
     reader = csv.DictReader(io.StringIO("\n".join(lines)))
     rows = []
-    for row in reader:
+    for number, row in enumerate(reader, 2):
+        if None in row or None in row.values():
+            raise ValueError(
+                f"data file {filename}: data row {number} has the wrong number of fields (quote a value"
+                " holding a comma)"
+            )
         rows.append({key.strip(): (value or "").strip() for key, value in row.items()})
     return tuple(rows)
 
