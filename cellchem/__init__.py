@@ -3,11 +3,14 @@
 The public core: read formulas, molar masses and compositions from standard
 atomic weights, the ion catalog and salts by charge balance, oxidation states,
 inorganic names both ways, and solutions of ions (dissociation, ionic
-strength, activity, conductivity, recipes, dilution, ion balance).
+strength, activity, conductivity, recipes, dilution, ion balance), and the
+audit's checks over plain rows (``audit_rows``, ``cas_is_valid``).
 Pure functions over plain values; no spreadsheet library is imported here.
 """
 
 from .activity import activity_coefficient, mean_activity_coefficient
+from .audit import audit_rows
+from .cas import cas_is_valid
 from .charge import ChargeBalance, charge_balance, net_charge, oxidation_state
 from .conductivity import conductivity
 from .elements import Element, element
@@ -42,6 +45,8 @@ __all__ = [
     "Recipe",
     "Value",
     "activity_coefficient",
+    "audit_rows",
+    "cas_is_valid",
     "charge_balance",
     "composition",
     "concentration_from_mass",

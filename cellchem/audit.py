@@ -7,16 +7,24 @@ workbook nor a spreadsheet library is needed here.
 
 from __future__ import annotations
 
+import difflib
 import math
 import re
-from dataclasses import dataclass
+from collections import Counter
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
+from functools import cache
 
+from .cas import read_cas
 from .charge import charge_balance
+from .columns import Layout, column_letter, find_layout
+from .elements import all_elements
 from .errors import CellchemError
 from .formula import Formula, case_readings, parse_formula
-from .ions import counts_key
+from .ions import catalog, counts_key
 from .mass import molar_mass
-from .names import read_name
+from .names import name_from_formula, read_name
+from .tables import read_table
 
 ERROR = "error"
 WARNING = "warning"
@@ -62,9 +70,15 @@ class LineResult:
 _NUMBER = re.compile(r"^\s*([0-9]+(?:[.,][0-9]+)?)\s*(?:g\s*/\s*mol|g·mol⁻¹|g mol-1)?\s*$", re.IGNORECASE)
 
 
-def read_stated_mass(value: object) -> tuple[float, int] | None:
+def read_stated_mass(value: object, decimal_comma: bool | None = None) -> tuple[float, int] | None:
     """A stated molar mass and its number of decimals, from a cell value
     (a number, or text such as '58.44', '58,44 g/mol'); None if empty.
+
+    Args:
+        value: the cell value.
+        decimal_comma: True when the file writes decimal commas (semicolon
+            exports); False or None when it does not, in which case a comma
+            followed by exactly three digits ('1,234') is refused as ambiguous.
 
     Raises:
         CellchemError: the value is not a molar mass.
@@ -82,17 +96,29 @@ def read_stated_mass(value: object) -> tuple[float, int] | None:
     m = _NUMBER.match(str(value))
     if not m:
         raise CellchemError(f"'{value}' is not a molar mass (expected a number in g/mol, such as '58.44')")
-    number = m.group(1).replace(",", ".")
+    number = m.group(1)
+    if "," in number and not decimal_comma and len(number.split(",")[1]) == 3:
+        raise CellchemError(
+            f"'{value}' is ambiguous: a decimal comma ({number.replace(',', '.')}) or a thousands separator"
+            f" ({number.replace(',', '')}); write the molar mass with a decimal point"
+        )
+    number = number.replace(",", ".")
     decimals = len(number.split(".")[1]) if "." in number else 0
     return float(number), decimals
 
 
-def mass_tolerance(stated: float, decimals: int) -> float:
+def mass_tolerance(stated: float, decimals: int, allowance: float | None = None) -> float:
     """How far a stated molar mass may lie from the computed one and still
-    agree: half a unit in its last printed decimal, plus 0.01 g/mol or 0.01 %
-    (whichever is larger) for the small differences between editions of the
-    atomic-weight table (common practice)."""
-    return 0.5 * 10.0 ** (-decimals) + max(0.01, 1e-4 * stated)
+    agree: half a unit in its last printed decimal (suppliers round to the
+    decimals they print), plus an allowance for the small differences between
+    editions of the atomic-weight table: 0.01 g/mol or 0.01 % of the value,
+    whichever is larger (common practice), or ``allowance`` g/mol when given.
+
+    >>> round(mass_tolerance(58.44, 2), 4)
+    0.015
+    """
+    extra = max(0.01, 1e-4 * stated) if allowance is None else allowance
+    return 0.5 * 10.0 ** (-decimals) + extra
 
 
 def _blank(value: object) -> bool:
@@ -103,6 +129,130 @@ def _same(a: Formula, b: Formula) -> bool:
     return counts_key(a.counts) == counts_key(b.counts) and a.charge == b.charge
 
 
+def _ions(f: Formula) -> list[tuple[str, int, str, str]] | None:
+    """(formula text, charge, name, label) of each ion of a formula, or None
+    when it does not read as ions."""
+    balance = charge_balance(f.anhydrous())
+    if not balance.balanced or balance.kind != "ionic":
+        return None
+    return [(s.ion.text, s.ion.charge, s.ion.name, s.ion.label) for s in balance.charges if s.ion is not None]
+
+
+def _element_key(ion: tuple[str, int, str, str]) -> tuple:
+    return counts_key(parse_formula(ion[0]).counts)
+
+
+def how_they_differ(named: Formula, formula: Formula) -> str:
+    """Say how the formula a name reads as differs from a line's formula:
+    water of crystallisation, a charge (Stock number), a different ion, or
+    parentheses; '' when none of these explains it.
+
+    >>> how_they_differ(parse_formula("FeCl2"), parse_formula("FeCl3"))
+    'a different charge: the name has iron(II) (Fe2+), the formula iron(III) (Fe3+)'
+    >>> how_they_differ(parse_formula("Na2SO3"), parse_formula("Na2SO4"))
+    'a different ion: the name has sulfite (SO3 2-), the formula sulfate (SO4 2-)'
+    """
+    if _same(named.anhydrous(), formula.anhydrous()):
+        return (
+            f"the water of crystallisation: the name has {named.water or 'no'} H2O, the formula"
+            f" {formula.water if formula.water is not None else 'an unknown number of'} H2O"
+        )
+    written = formula.source or formula.text()
+    if (
+        written
+        and "(" not in written
+        and "(" in named.text()
+        and named.text().replace("(", "").replace(")", "") == written.replace(" ", "")
+    ):
+        return f"missing parentheses: the formula is written {written}, the name gives {named.text()}"
+    if "(" in written and formula.text().replace("(", "").replace(")", "") == named.text():
+        return f"extra parentheses: the formula is written {written}, the name gives {named.text()}"
+    a, b = _ions(named), _ions(formula)
+    if not a or not b:
+        return ""
+    cat_a = [i for i in a if i[1] > 0]
+    cat_b = [i for i in b if i[1] > 0]
+    an_a = [i for i in a if i[1] < 0]
+    an_b = [i for i in b if i[1] < 0]
+    same_anions = {(i[0], i[1]) for i in an_a} == {(i[0], i[1]) for i in an_b}
+    same_cations = {(i[0], i[1]) for i in cat_a} == {(i[0], i[1]) for i in cat_b}
+    if same_anions and not same_cations:
+        if {_element_key(i) for i in cat_a} == {_element_key(i) for i in cat_b}:
+            x = next(i for i in cat_a if (i[0], i[1]) not in {(j[0], j[1]) for j in cat_b})
+            y = next(i for i in cat_b if (i[0], i[1]) not in {(j[0], j[1]) for j in cat_a})
+            return f"a different charge: the name has {x[2]} ({x[3]}), the formula {y[2]} ({y[3]})"
+        x = ", ".join(f"{i[2]} ({i[3]})" for i in cat_a)
+        y = ", ".join(f"{i[2]} ({i[3]})" for i in cat_b)
+        return f"a different cation: the name has {x}, the formula {y}"
+    if same_cations and not same_anions:
+        x = ", ".join(f"{i[2]} ({i[3]})" for i in an_a if (i[0], i[1]) not in {(j[0], j[1]) for j in an_b})
+        y = ", ".join(f"{i[2]} ({i[3]})" for i in an_b if (i[0], i[1]) not in {(j[0], j[1]) for j in an_a})
+        return f"a different ion: the name has {x}, the formula {y}"
+    return ""
+
+
+# ---------------------------------------------------------------------------
+# Spelling: a name that does not read, one word away from one that does
+# ---------------------------------------------------------------------------
+
+_WORD = re.compile(r"[A-Za-z]{4,}")
+
+
+@cache
+def _vocabulary() -> tuple[str, ...]:
+    words: set[str] = set()
+
+    def add(text: str) -> None:
+        for w in re.findall(r"[a-z]+", text.casefold()):
+            if len(w) >= 4:
+                words.add(w)
+
+    for ion in catalog():
+        add(ion.name)
+        add(ion.legacy_name)
+        for other in ion.other_names:
+            add(other)
+    for table, column in (
+        ("elements.csv", "name"),
+        ("trivial_names.csv", "name"),
+        ("named_compounds.csv", "name"),
+        ("acids.csv", "name"),
+        ("qualifiers.csv", "word"),
+        ("hydrate_words.csv", "word"),
+        ("ligands.csv", "name"),
+    ):
+        for row in read_table(table):
+            add(row.get(column, ""))
+    return tuple(sorted(words))
+
+
+def respell(name: str) -> str | None:
+    """The name with each word that cellchem does not know replaced by the
+    closest word it does (``'Sodium Cloride'`` -> ``'Sodium chloride'``), or
+    None when no word needed replacing or none is close enough.
+
+    >>> respell("Sodium Cloride")
+    'Sodium Chloride'
+    """
+    vocab = _vocabulary()
+    known = set(vocab)
+    changed = False
+
+    def fix(m: re.Match[str]) -> str:
+        nonlocal changed
+        word = m.group(0)
+        if word.casefold() in known:
+            return word
+        close = difflib.get_close_matches(word.casefold(), vocab, n=1, cutoff=0.85)
+        if not close:
+            return word
+        changed = True
+        return close[0].capitalize() if word[0].isupper() else close[0]
+
+    out = _WORD.sub(fix, name)
+    return out if changed else None
+
+
 def check_name(name: object, formula: Formula | None) -> list[Finding]:
     """Does the line's name describe the line's formula?
 
@@ -111,43 +261,67 @@ def check_name(name: object, formula: Formula | None) -> list[Finding]:
         formula: the line's formula, read, or None when the line has none.
 
     Returns:
-        Findings: an error when they disagree, a warning when the name is
-        silent about the hydrate the formula has, a note when the name cannot
-        be read (organic names, mixtures, product codes are not checked) or
+        Findings: an error when they disagree (saying how: hydrate, charge,
+        ion, parentheses), a warning when the name is silent about the
+        hydrate the formula has, a note when the name cannot be read (organic
+        names, mixtures, product codes are not checked), is misspelled, or
         leaves a charge open that the formula settles.
     """
     if _blank(name):
         return []
-    text = str(name)
+    text = str(name).strip()
+    spelled = ""
     try:
         reading = read_name(text)
     except CellchemError as exc:
         if exc.choices and formula is not None:
             dry = formula.anhydrous()
             matches = [c for c in exc.choices if _same(parse_formula(c), dry)]
-            if matches:
+            if len(matches) == 1:
+                full = _full_name(parse_formula(matches[0]).with_water(formula.water))
                 return [
                     Finding(
                         "name",
                         NOTE,
-                        f"the name '{text}' leaves a charge open; the formula {formula.text()} settles it",
+                        f"the name '{text}' leaves a charge open; the formula {formula.text()} settles it:"
+                        f" {full}",
+                        full,
+                        "name",
+                    )
+                ]
+            if not matches:
+                return [
+                    Finding(
+                        "name",
+                        ERROR,
+                        f"the name '{text}' fits none of its readings to the formula {formula.text()}: {exc}",
                         "",
                         "name",
                     )
                 ]
-            return [
-                Finding(
-                    "name",
-                    ERROR,
-                    f"the name '{text}' fits none of its readings to the formula {formula.text()}: {exc}",
-                    "",
-                    "name",
-                )
-            ]
-        return [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
+        respelled = respell(text)
+        if respelled is not None:
+            try:
+                reading = read_name(respelled)
+                spelled = respelled
+            except CellchemError:
+                return [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
+        else:
+            return [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
     named = parse_formula(reading.formula)
+    out: list[Finding] = []
+    if spelled:
+        out.append(
+            Finding(
+                "name-spelling",
+                NOTE,
+                f"the name '{text}' is misspelled; it reads as '{spelled}' ({named.text()})",
+                spelled,
+                "name",
+            )
+        )
     if formula is None:
-        return [
+        out.append(
             Finding(
                 "name",
                 NOTE,
@@ -155,60 +329,121 @@ def check_name(name: object, formula: Formula | None) -> list[Finding]:
                 named.text(),
                 "formula",
             )
-        ]
+        )
+        return out
     if _same(named, formula):
-        return []
+        return out
     if _same(named.anhydrous(), formula.anhydrous()):
         if formula.water is None or named.water is None:
-            return []
+            return out
         stated = any(q.kind == "hydrate" for q in reading.qualifiers)
         if not stated and named.water == 0:
-            return [
+            out.append(
                 Finding(
-                    "name",
+                    "name-hydrate",
                     WARNING,
                     f"the name '{text}' does not say which hydrate; the formula {formula.text()} has"
                     f" {formula.water} H2O",
-                    "",
+                    _full_name(formula),
                     "name",
                 )
-            ]
-        return [
+            )
+            return out
+        out.append(
             Finding(
-                "name",
+                "name-hydrate",
                 ERROR,
-                f"the name '{text}' reads as {named.text()}, but the formula is {formula.text()}"
-                " (a different hydrate)",
+                f"the name '{text}' reads as {named.text()}, but the formula is {formula.text()}:"
+                f" {how_they_differ(named, formula)}",
                 named.text(),
                 "formula",
             )
-        ]
-    return [
+        )
+        return out
+    how = how_they_differ(named, formula)
+    out.append(
         Finding(
             "name",
             ERROR,
-            f"the name '{text}' reads as {named.text()}, but the formula is {formula.text()}",
+            f"the name '{text}' reads as {named.text()}, but the formula is {formula.text()}"
+            + (f": {how}" if how else ""),
             named.text(),
             "formula",
         )
-    ]
+    )
+    return out
 
 
-def check_line(formula: object, stated_molar_mass: object = None, name: object = None) -> LineResult:
-    """Check a line's formula, its stated molar mass against the formula, and
-    its name against the formula.
+def _full_name(f: Formula) -> str:
+    try:
+        return name_from_formula(f)
+    except CellchemError:
+        return f.text()
+
+
+def check_cas(cas: object) -> list[Finding]:
+    """Findings for a CAS RN cell: an error for a bad format or check digit
+    (with the check digit the other digits call for), a note for a number
+    written in another form (without hyphens, with a prefix)."""
+    if _blank(cas):
+        return []
+    try:
+        reading = read_cas(cas if not isinstance(cas, float) or not cas.is_integer() else int(cas))
+    except CellchemError as exc:
+        suggestion = exc.choices[0] if exc.choices else ""
+        return [Finding("cas", ERROR, str(exc), suggestion, "cas")]
+    if reading.forms:
+        return [
+            Finding(
+                "cas",
+                NOTE,
+                f"CAS RN '{str(cas).strip()}' is written {' and '.join(reading.forms)}; the standard form is"
+                f" {reading.number}",
+                reading.number,
+                "cas",
+            )
+        ]
+    return []
+
+
+# Elements a stores formula seldom holds: a capitals reading that needs one of
+# them, where another reading does not, is flagged (CUO reads as C, U, O).
+_UNUSUAL = frozenset({"He", "Ne", "Ar", "Kr", "Xe", "Rn", "Tc", "Pm"}) | frozenset(
+    el.symbol for el in all_elements() if el.z >= 84
+)
+
+
+def _unusual(f: Formula) -> bool:
+    return any(symbol in _UNUSUAL for symbol in f.counts)
+
+
+def check_line(
+    formula: object,
+    stated_molar_mass: object = None,
+    name: object = None,
+    cas: object = None,
+    *,
+    mass_allowance: float | None = None,
+    decimal_comma: bool | None = None,
+) -> LineResult:
+    """Check a line's formula, its stated molar mass against the formula, its
+    name against the formula, and its CAS RN.
 
     Args:
         formula: the formula cell (text); empty gives no formula findings.
         stated_molar_mass: the molar-mass cell (number or text, g/mol), or None.
         name: the name cell (text), or None.
+        cas: the CAS RN cell, or None.
+        mass_allowance: g/mol allowed beyond the rounding of the stated value
+            (default: 0.01 g/mol or 0.01 %, whichever is larger).
+        decimal_comma: whether text numbers use a decimal comma.
 
     Returns:
         A LineResult with the findings.
     """
-    findings: list[Finding] = []
+    findings: list[Finding] = list(check_cas(cas))
     if _blank(formula):
-        return LineResult(None, None, tuple(check_name(name, None)))
+        return LineResult(None, None, tuple(check_name(name, None) + findings))
     text = str(formula)
     try:
         f = parse_formula(text)
@@ -217,14 +452,18 @@ def check_line(formula: object, stated_molar_mass: object = None, name: object =
         if exc.choices:
             suggestion = "write one of: " + ", ".join(exc.choices)
         findings.append(Finding("formula", ERROR, str(exc), suggestion, "formula"))
+        try:
+            read_stated_mass(stated_molar_mass, decimal_comma)
+        except CellchemError as mass_exc:
+            findings.append(Finding("molar-mass", ERROR, str(mass_exc), "", "molar_mass"))
         return LineResult(None, None, tuple(findings))
     findings.extend(check_name(name, f))
     if not any(c.islower() for c in text) and len(f.counts) > 1:
-        other = case_readings(text)
-        if other:
+        other = [o for o in case_readings(text) if not _unusual(parse_formula(o))]
+        if other and _unusual(f):
             findings.append(
                 Finding(
-                    "formula",
+                    "formula-case",
                     WARNING,
                     f"'{text}' is written in capitals; it reads as {f.text()}, but the letters also allow "
                     + ", ".join(other),
@@ -241,20 +480,21 @@ def check_line(formula: object, stated_molar_mass: object = None, name: object =
     except CellchemError as exc:
         findings.append(Finding("molar-mass", WARNING, str(exc), "", "formula"))
     try:
-        stated = read_stated_mass(stated_molar_mass)
+        stated = read_stated_mass(stated_molar_mass, decimal_comma)
     except CellchemError as exc:
         findings.append(Finding("molar-mass", ERROR, str(exc), "", "molar_mass"))
         stated = None
     if stated is not None and mass is not None:
         value, decimals = stated
-        if abs(value - mass) > mass_tolerance(value, decimals):
+        tolerance = mass_tolerance(value, decimals, mass_allowance)
+        if abs(value - mass) > tolerance:
             hint = ""
             dry = f.anhydrous()
             for n in (0, 0.5, 1, 1.5, 2, 3, 4, 5, 6, 7, 8, 9, 10, 12):
                 other = dry.with_water(n)
                 if other == f or other.has_unknown_count:
                     continue
-                if abs(value - float(molar_mass(other))) <= mass_tolerance(value, decimals):
+                if abs(value - float(molar_mass(other))) <= tolerance:
                     hint = f"; {value:g} g/mol is the molar mass of {other.text()}"
                     break
             findings.append(
@@ -268,3 +508,192 @@ def check_line(formula: object, stated_molar_mass: object = None, name: object =
                 )
             )
     return LineResult(f, mass, tuple(findings))
+
+
+# ---------------------------------------------------------------------------
+# Tables of rows
+# ---------------------------------------------------------------------------
+
+CHECKED = "checked"
+NOT_CHECKED = "not checked"
+BLANK = "blank"
+
+_FIELD_ROLE = {"formula": "formula", "molar_mass": "molar_mass", "name": "name", "cas": "cas"}
+
+
+@dataclass(frozen=True)
+class RowResult:
+    """The audit of one row of a table.
+
+    Attributes:
+        row: the 1-based row number in the sheet (or line number in a file).
+        status: ``'checked'``, ``'not checked'`` or ``'blank'``.
+        reason: why a row was not checked ('' otherwise).
+        findings: the findings, each with ``field`` naming its role.
+        columns: role -> column letter for each finding's field.
+        result: the LineResult, when the row was checked.
+    """
+
+    row: int
+    status: str
+    reason: str
+    findings: tuple[Finding, ...]
+    columns: Mapping[str, str] = field(default_factory=dict)
+    result: LineResult | None = None
+
+    def column_of(self, finding: Finding) -> str:
+        return self.columns.get(finding.field, "")
+
+
+def _cell(cells: Sequence[object], index: int | None) -> object:
+    if index is None or index >= len(cells):
+        return None
+    return cells[index]
+
+
+def audit_row(
+    cells: Sequence[object],
+    layout: Layout,
+    row: int,
+    *,
+    mass_allowance: float | None = None,
+    decimal_comma: bool | None = None,
+) -> RowResult:
+    """Audit one data row of a table whose layout is known."""
+    roles = layout.roles
+    values = {role: _cell(cells, roles.get(role)) for role in ("name", "formula", "molar_mass", "cas")}
+    if all(_blank(v) for v in cells):
+        return RowResult(row, BLANK, "", ())
+    letters = {r: column_letter(i) for r, i in roles.items()}
+    if all(_blank(values[r]) for r in values):
+        return RowResult(row, NOT_CHECKED, "no name, formula, molar mass or CAS RN", (), letters)
+    result = check_line(
+        values["formula"],
+        values["molar_mass"],
+        values["name"],
+        values["cas"],
+        mass_allowance=mass_allowance,
+        decimal_comma=decimal_comma,
+    )
+    findings = result.findings
+    if _blank(values["formula"]):
+        unread = any(f.check == "name" and f.message.startswith("name not checked") for f in findings)
+        if unread or _blank(values["name"]):
+            reason = (
+                "no formula, and the name is not one cellchem reads (organic, mixture or product name)"
+                if unread
+                else "no name or formula"
+            )
+            return RowResult(row, NOT_CHECKED, reason, findings, letters, result)
+    return RowResult(row, CHECKED, "", findings, letters, result)
+
+
+@dataclass
+class Summary:
+    """Counts over an audit: rows read, lines checked, not checked (by
+    reason), and findings by severity and by check."""
+
+    rows: int = 0
+    blank: int = 0
+    checked: int = 0
+    not_checked: Counter = field(default_factory=Counter)
+    severities: Counter = field(default_factory=Counter)
+    checks: Counter = field(default_factory=Counter)
+
+    def add(self, r: RowResult) -> None:
+        self.rows += 1
+        if r.status == BLANK:
+            self.blank += 1
+            return
+        if r.status == CHECKED:
+            self.checked += 1
+        else:
+            self.not_checked[r.reason] += 1
+        for f in r.findings:
+            self.severities[f.severity] += 1
+            self.checks[(f.severity, f.check)] += 1
+
+    def merge(self, other: Summary) -> None:
+        self.rows += other.rows
+        self.blank += other.blank
+        self.checked += other.checked
+        self.not_checked.update(other.not_checked)
+        self.severities.update(other.severities)
+        self.checks.update(other.checks)
+
+
+@dataclass(frozen=True)
+class TableAudit:
+    """The result of ``audit_rows``: the layout found, every row's result and
+    the summary."""
+
+    layout: Layout
+    rows: tuple[RowResult, ...]
+    summary: Summary
+
+    @property
+    def findings(self) -> list[tuple[int, str, Finding]]:
+        """(row, column letter, finding) for every finding, in row order."""
+        return [(r.row, r.column_of(f), f) for r in self.rows for f in r.findings]
+
+
+def iter_audit(
+    rows: Iterable[Sequence[object]],
+    layout: Layout,
+    first_row: int,
+    *,
+    row_numbers: Iterable[int] | None = None,
+    mass_allowance: float | None = None,
+    decimal_comma: bool | None = None,
+) -> Iterable[RowResult]:
+    """Audit the data rows after a header, one at a time (memory does not grow
+    with the table). ``first_row`` is the 1-based number of the first row
+    given; ``row_numbers`` gives each row's number instead (CSV line numbers)."""
+    numbers = iter(row_numbers) if row_numbers is not None else None
+    for i, cells in enumerate(rows):
+        number = next(numbers) if numbers is not None else first_row + i
+        yield audit_row(cells, layout, number, mass_allowance=mass_allowance, decimal_comma=decimal_comma)
+
+
+def audit_rows(
+    rows: Iterable[Sequence[object]],
+    columns: Mapping[str, str] | None = None,
+    *,
+    mass_allowance: float | None = None,
+    decimal_comma: bool | None = None,
+) -> TableAudit:
+    """Audit a table given as plain rows (lists of cell values), header
+    included: the checks of ``cellchem audit`` without a workbook.
+
+    Args:
+        rows: the table's rows, the header row among the first 20.
+        columns: role -> heading or column letter, to override the roles read
+            from the headings (roles: name, formula, molar_mass, cas,
+            concentration, quantity, unit).
+        mass_allowance: g/mol allowed beyond the rounding of a stated molar
+            mass (default 0.01 g/mol or 0.01 %, whichever is larger).
+        decimal_comma: whether text numbers use a decimal comma.
+
+    Returns:
+        A TableAudit: ``layout``, ``rows`` (a RowResult per data row, numbered
+        from 1 as in a sheet) and ``summary``.
+
+    Raises:
+        CellchemError: no header row found, or a column override that names no column.
+
+    >>> audit = audit_rows([["Name", "Formula", "MW"], ["Sodium chloride", "NaCl", 58.44],
+    ...                     ["Sodium sulfite", "Na2SO4", 142.04]])
+    >>> [(row, col, f.severity, f.check) for row, col, f in audit.findings]
+    [(3, 'B', 'error', 'name')]
+    """
+    materialised = [list(r) for r in rows]
+    layout = find_layout(materialised, columns)
+    body = materialised[layout.header_index + 1 :]
+    summary = Summary()
+    results = []
+    for r in iter_audit(
+        body, layout, layout.header_index + 2, mass_allowance=mass_allowance, decimal_comma=decimal_comma
+    ):
+        summary.add(r)
+        results.append(r)
+    return TableAudit(layout, tuple(results), summary)

@@ -126,6 +126,136 @@ def _cmd_check_formulas(args: argparse.Namespace) -> int:
     return EXIT_FINDINGS if errors else EXIT_CLEAN
 
 
+_SEVERITY_ORDER = {ERROR: 0, WARNING: 1, NOTE: 2}
+_ROLE_TITLES = {"molar_mass": "molar mass", "cas": "CAS RN"}
+
+
+def _plural(n: int, word: str) -> str:
+    return f"{n} {word}" if n == 1 else f"{n} {word}s"
+
+
+def _summary_lines(run) -> list[str]:
+    """The summary printed at the end of an audit (and written to the findings workbook)."""
+    total = run.summary
+    files = run.files
+    sheets = sum(len(f.sheets) for f in files)
+    out = [
+        f"files: {len(files)} ({len(run.unusable)} could not be used); sheets and tables: {sheets};"
+        f" data rows read: {total.rows} ({total.blank} blank)"
+    ]
+    for f in files:
+        if f.error:
+            out.append(f"  {f.path}: NOT READ: {f.error}")
+            continue
+        for note in f.notes:
+            out.append(f"  {f.path}: {note}")
+        for sh in f.sheets:
+            where = f"{f.path}" + (f" [{sh.sheet}]" if sh.sheet else "")
+            if sh.error and sh.no_table and len(f.sheets) > 1:
+                out.append(f"  {where}: not audited: no header row naming a name or formula column")
+                continue
+            if sh.error:
+                out.append(f"  {where}: not audited: {sh.error}")
+                continue
+            roles = ", ".join(f"{_ROLE_TITLES.get(role, role)} {col}" for role, col in sh.roles.items())
+            out.append(f"  {where}: header row {sh.header_row}; {roles}; {sh.summary.rows} rows")
+            for note in sh.notes:
+                out.append(f"    {note}")
+        if f.hidden:
+            out.append(
+                f"  {f.path}: hidden sheets not read: {', '.join(repr(h) for h in f.hidden)} (--hidden"
+                " reads them)"
+            )
+    out.append(f"lines checked: {total.checked}")
+    not_checked = sum(total.not_checked.values())
+    out.append(f"lines not checked: {not_checked}")
+    for reason, n in total.not_checked.most_common():
+        out.append(f"  {n:>6}  {reason}")
+    sev = total.severities
+    out.append(
+        f"findings: {_plural(sev[ERROR], 'error')}, {_plural(sev[WARNING], 'warning')},"
+        f" {_plural(sev[NOTE], 'note')}"
+    )
+    for (severity, check), n in sorted(
+        total.checks.items(), key=lambda kv: (_SEVERITY_ORDER[kv[0][0]], -kv[1])
+    ):
+        out.append(f"  {n:>6}  {severity:<8} {check}")
+    return out
+
+
+def _cmd_audit(args: argparse.Namespace) -> int:
+    from .adapters.audit_files import AuditRun, Options, audit_file
+    from .adapters.files import UnusableFile
+    from .adapters.precheck import require_defusedxml
+    from .columns import read_overrides
+    from .errors import CellchemError
+
+    try:
+        require_defusedxml()
+        columns = read_overrides(args.column or [])
+    except (CellchemError, UnusableFile) as exc:
+        raise UsageError(str(exc)) from None
+    for target in (args.report, args.output):
+        if target is None:
+            continue
+        for f in args.files:
+            try:
+                if Path(target).resolve() == Path(f).resolve():
+                    raise UsageError(
+                        f"the report '{target}' would overwrite the input '{f}'; choose another name"
+                    )
+            except OSError:
+                pass
+    if args.show != "all" and not (args.show.isdigit()):
+        raise UsageError(f"--show {args.show!r}: expected a number of findings or 'all'")
+    if args.report and Path(args.report).suffix.lower() not in (".json", ".csv"):
+        raise UsageError(f"--report '{args.report}': the name must end in .json or .csv")
+    if args.output and Path(args.output).suffix.lower() != ".xlsx":
+        raise UsageError(f"-o '{args.output}': the findings workbook must be an .xlsx file")
+    options = Options(
+        columns=columns,
+        sheet=args.sheet,
+        hidden=args.hidden,
+        encoding=args.encoding,
+        delimiter=args.delimiter,
+        mass_allowance=args.mass_allowance,
+    )
+    run = AuditRun()
+    for f in args.files:
+        audit_file(f, options, run)
+    out = sys.stdout
+    shown = sorted(run.findings, key=lambda r: (_SEVERITY_ORDER[r.severity], r.file, r.sheet, r.row))
+    limit = len(shown) if args.show == "all" else int(args.show)
+
+    for r in shown[:limit]:
+        where = r.file + (f" [{r.sheet}]" if r.sheet else "") + f" {r.column}{r.row}"
+        fix = f"  -> {r.suggestion}" if r.suggestion else ""
+        out.write(f"{where}  {r.severity}  {r.check}: {r.message}{fix}\n")
+    if len(shown) > limit:
+        out.write(f"... {len(shown) - limit} more findings (--show all prints them; --report writes them)\n")
+    if shown[:limit]:
+        out.write("\n")
+    lines = _summary_lines(run)
+    out.write("\n".join(lines) + "\n")
+    from .adapters import reports
+
+    try:
+        if args.report:
+            if args.report.lower().endswith(".json"):
+                reports.write_json(args.report, run.findings)
+            else:
+                reports.write_csv(args.report, run.findings)
+            out.write(f"report written: {args.report}\n")
+        if args.output:
+            reports.write_workbook(args.output, run.findings, [(line.strip(), "") for line in lines])
+            out.write(f"findings workbook written: {args.output}\n")
+    except OSError as exc:
+        raise UsageError(f"could not write the report: {exc.strerror or exc}") from None
+    if run.unusable:
+        return EXIT_USAGE
+    return EXIT_FINDINGS if run.summary.severities[ERROR] else EXIT_CLEAN
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="cellchem",
@@ -160,6 +290,75 @@ def build_parser() -> argparse.ArgumentParser:
         help="the header of the name column, e.g. --name-column 'Description'",
     )
     check.set_defaults(run=_cmd_check_formulas)
+
+    audit = sub.add_parser(
+        "audit",
+        help="audit inventory workbooks and supplier tables: names, formulas, molar masses and CAS RNs",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+        description=(
+            "Check every line of inventory workbooks and supplier tables (.xlsx, .xlsm, .csv, .txt): that"
+            " the\n"
+            "formula reads and balances, that the name describes the formula, that the stated molar mass\n"
+            "matches, and that the CAS RN has a valid check digit. Files are only read, never changed.\n\n"
+            "Example: cellchem audit workbooks/demo-inventory.xlsx --report findings.json\n\n"
+            "Exit codes: 0 no errors found, 1 findings of severity error, 2 a file or the command line\n"
+            "could not be used."
+        ),
+    )
+    audit.add_argument("files", nargs="+", metavar="FILE", help="workbooks or CSV/TXT exports to audit")
+    audit.add_argument(
+        "--sheet", metavar="NAME", help="audit only this sheet of each workbook, e.g. --sheet 'Stock 2026'"
+    )
+    audit.add_argument(
+        "--hidden", action="store_true", help="also audit hidden sheets (the summary lists them otherwise)"
+    )
+    audit.add_argument(
+        "--column",
+        action="append",
+        metavar="ROLE=HEADER_OR_LETTER",
+        help="say which column holds a role when its heading is not recognised; roles: name, formula,"
+        " molar_mass, cas, concentration, quantity, unit. Repeatable, e.g. --column formula=C"
+        " --column 'molar_mass=Mol. Wt.'",
+    )
+    audit.add_argument(
+        "--report",
+        metavar="PATH",
+        help="write every finding to a new .json (a list of objects) or .csv file,"
+        " e.g. --report findings.csv",
+    )
+    audit.add_argument(
+        "-o",
+        "--output",
+        metavar="PATH.xlsx",
+        help="write a findings workbook (a new file: a filterable table and a summary sheet),"
+        " e.g. -o findings.xlsx",
+    )
+    audit.add_argument(
+        "--encoding",
+        metavar="NAME",
+        help="the encoding of CSV/TXT files when it is not detected, e.g. --encoding cp1252 (detected:"
+        " UTF-8 with or without BOM, UTF-16 with BOM, cp1252)",
+    )
+    audit.add_argument(
+        "--delimiter",
+        metavar="CHAR",
+        help="the separator of CSV/TXT files: comma, semicolon or tab (detected when not given),"
+        " e.g. --delimiter semicolon",
+    )
+    audit.add_argument(
+        "--mass-allowance",
+        type=float,
+        metavar="G_PER_MOL",
+        help="how far a stated molar mass may differ beyond its printed rounding, in g/mol (default: 0.01"
+        " g/mol or 0.01 %%, whichever is larger), e.g. --mass-allowance 0.05",
+    )
+    audit.add_argument(
+        "--show",
+        default="50",
+        metavar="N",
+        help="how many findings to print before the summary (default 50; 'all' or 0), e.g. --show all",
+    )
+    audit.set_defaults(run=_cmd_audit)
     return parser
 
 

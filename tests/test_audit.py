@@ -18,9 +18,9 @@ LINES = [
     # the anhydrous molar mass (159.61) written against the pentahydrate formula
     ("copper(II) sulfate pentahydrate", "CuSO4·5H2O", "159.61", [("molar-mass", ERROR)]),
     # the name says a different hydrate from the formula
-    ("copper(II) sulfate pentahydrate", "CuSO4", "159.61", [("name", ERROR)]),
+    ("copper(II) sulfate pentahydrate", "CuSO4", "159.61", [("name-hydrate", ERROR)]),
     # the name is silent about the hydrate the formula has: common practice to warn
-    ("copper(II) sulfate", "CuSO4·5H2O", "249.68", [("name", WARNING)]),
+    ("copper(II) sulfate", "CuSO4·5H2O", "249.68", [("name-hydrate", WARNING)]),
     # a name that leaves the charge open, settled by the formula
     ("iron chloride", "FeCl3", "162.20", [("name", NOTE)]),
     # an open charge that no candidate fits

@@ -162,12 +162,328 @@ def stock_list_csv() -> str:
     return buffer.getvalue()
 
 
+# ---------------------------------------------------------------------------
+# The inventory workbook and the supplier table (the audit's demo)
+# ---------------------------------------------------------------------------
+
+# The stores' catalogue: name as the stores write it, formula, CAS RN. CAS RNs
+# are recalled (from memory) and each passes its check digit; they identify
+# the compounds, they are not anyone's data.
+CATALOGUE = [
+    ("Sodium chloride", "NaCl", "7647-14-5"),
+    ("Potassium chloride", "KCl", "7447-40-7"),
+    ("Calcium chloride dihydrate", "CaCl2·2H2O", "10035-04-8"),
+    ("Magnesium sulfate heptahydrate", "MgSO4·7H2O", "10034-99-8"),
+    ("Copper(II) sulfate pentahydrate", "CuSO4·5H2O", "7758-99-8"),
+    ("Iron(II) sulfate heptahydrate", "FeSO4·7H2O", "7782-63-0"),
+    ("Iron(III) chloride hexahydrate", "FeCl3·6H2O", "10025-77-1"),
+    ("Zinc sulfate heptahydrate", "ZnSO4·7H2O", "7446-20-0"),
+    ("Sodium hydrogencarbonate", "NaHCO3", "144-55-8"),
+    ("Sodium carbonate, anhydrous", "Na2CO3", "497-19-8"),
+    ("Calcium carbonate", "CaCO3", "471-34-1"),
+    ("Sodium hydroxide pellets", "NaOH", "1310-73-2"),
+    ("Potassium hydroxide", "KOH", "1310-58-3"),
+    ("Calcium hydroxide", "Ca(OH)2", "1305-62-0"),
+    ("Potassium nitrate", "KNO3", "7757-79-1"),
+    ("Sodium nitrate", "NaNO3", "7631-99-4"),
+    ("Silver nitrate", "AgNO3", "7761-88-8"),
+    ("Lead(II) nitrate", "Pb(NO3)2", "10099-74-8"),
+    ("Ammonium chloride", "NH4Cl", "12125-02-9"),
+    ("Ammonium sulfate", "(NH4)2SO4", "7783-20-2"),
+    ("Ammonium nitrate", "NH4NO3", "6484-52-2"),
+    ("Potassium iodide", "KI", "7681-11-0"),
+    ("Potassium bromide", "KBr", "7758-02-3"),
+    ("Sodium thiosulfate pentahydrate", "Na2S2O3·5H2O", "10102-17-7"),
+    ("Potassium manganate(VII)", "KMnO4", "7722-64-7"),
+    ("Potassium dichromate", "K2Cr2O7", "7778-50-9"),
+    ("Potassium chromate", "K2CrO4", "7789-00-6"),
+    ("Barium chloride dihydrate", "BaCl2·2H2O", "10326-27-9"),
+    ("Aluminium sulfate", "Al2(SO4)3", "10043-01-3"),
+    ("Aluminium potassium sulfate dodecahydrate", "KAl(SO4)2·12H2O", "7784-24-9"),
+    ("Ammonium iron(II) sulfate hexahydrate", "(NH4)2Fe(SO4)2·6H2O", "7783-85-9"),
+    ("Potassium hexacyanidoferrate(II) trihydrate", "K4[Fe(CN)6]·3H2O", "14459-95-1"),
+    ("Potassium hexacyanidoferrate(III)", "K3[Fe(CN)6]", "13746-66-2"),
+    ("Cobalt(II) chloride hexahydrate", "CoCl2·6H2O", "7791-13-1"),
+    ("Nickel(II) sulfate hexahydrate", "NiSO4·6H2O", "10101-97-0"),
+    ("Manganese(II) sulfate monohydrate", "MnSO4·H2O", "10034-96-5"),
+    ("Copper(II) oxide", "CuO", "1317-38-0"),
+    ("Magnesium oxide", "MgO", "1309-48-4"),
+    ("Zinc oxide", "ZnO", "1314-13-2"),
+    ("Iron(III) oxide", "Fe2O3", "1309-37-1"),
+    ("Manganese(IV) oxide", "MnO2", "1313-13-9"),
+    ("Mercury(II) chloride", "HgCl2", "7487-94-7"),
+    ("Sodium sulfate, anhydrous", "Na2SO4", "7757-82-6"),
+    ("Sodium sulfite", "Na2SO3", "7757-83-7"),
+    ("Sodium acetate trihydrate", "CH3COONa·3H2O", "6131-90-4"),
+    ("Sodium tetraborate decahydrate", "Na2B4O7·10H2O", "1303-96-4"),
+    ("Disodium hydrogenphosphate dodecahydrate", "Na2HPO4·12H2O", "10039-32-4"),
+    ("Sodium dihydrogenphosphate dihydrate", "NaH2PO4·2H2O", "13472-35-0"),
+    ("Potassium dihydrogenphosphate", "KH2PO4", "7778-77-0"),
+    ("Calcium sulfate dihydrate", "CaSO4·2H2O", "10101-41-4"),
+    ("Strontium chloride hexahydrate", "SrCl2·6H2O", "10025-70-4"),
+    ("Lithium chloride", "LiCl", "7447-41-8"),
+    ("Tin(II) chloride dihydrate", "SnCl2·2H2O", "10025-69-1"),
+    ("Sodium fluoride", "NaF", "7681-49-4"),
+    ("Potassium iodate", "KIO3", "7758-05-6"),
+    ("Potassium chlorate", "KClO3", "3811-04-9"),
+    ("Hydrochloric acid 36%", "HCl", "7647-01-0"),
+    ("Sulfuric acid 98%", "H2SO4", "7664-93-9"),
+    ("Nitric acid 70%", "HNO3", "7697-37-2"),
+    ("Ammonia solution 35%", "NH3", "7664-41-7"),
+]
+
+# Lines the audit reads but cannot name-check: organics, mixtures, kits.
+NOT_INORGANIC = [
+    ("Glucose", "C6H12O6", "50-99-7"),
+    ("Ethanol, absolute", "C2H5OH", "64-17-5"),
+    ("Universal indicator solution", "", ""),
+    ("pH 7 buffer solution", "", ""),
+    ("Benedict's reagent", "", ""),
+    ("Starch, soluble", "", "9005-84-9"),
+]
+
+LOCATIONS = [
+    "Prep room A cupboard 1",
+    "Prep room A cupboard 2",
+    "Store B14 shelf 1",
+    "Store B14 shelf 2",
+    "Store B14 shelf 3",
+    "Acids cabinet C2",
+    "Oxidisers cabinet C3",
+    "Poisons cabinet C4",
+    "Lab 3 fume cupboard",
+]
+SUPPLIERS = ["Tarnhollow Scientific", "Quillbrook Reagents", "Marrowdene Lab Supply"]
+
+# Seeded discrepancies: (name, formula, stated molar mass, CAS RN, what the audit should find)
+SEEDED = [
+    ("Copper(II) oxide", "CUO", 79.55, "1317-38-0", "capitals read as U, C, O"),
+    ("Cobalt(II) chloride hexahydrate", "co Cl2·6H2O", 237.93, "7791-13-1", "formula does not read"),
+    ("Sodium chloride", "NaCl2", 58.44, "7647-14-5", "formula not balanced"),
+    ("Copper(II) sulfate pentahydrate", "CuSO4", 249.68, "7758-99-8", "name and formula differ in water"),
+    ("Iron(II) chloride", "FeCl3", 162.2, "7705-08-0", "a different charge"),
+    ("Sodium sulfite", "Na2SO4", 142.04, "7757-83-7", "a different ion"),
+    ("Calcium hydroxide", "CaOH2", 74.09, "1305-62-0", "missing parentheses"),
+    ("Potasium nitrate", "KNO3", 101.1, "7757-79-1", "misspelled name (a note)"),
+    ("Copper sulphate crystals", "CuSO₄·5H₂O", 249.68, "7758-99-8", "open charge settled (a note)"),
+    ("Magnesium sulfate", "MgSO4·7H2O", 246.47, "10034-99-8", "name silent about the hydrate"),
+    ("Potassium chloride", "KCl", 75.55, "7447-40-7", "wrong molar mass"),
+    ("Magnesium sulfate, anhydrous", "MgSO4", 246.47, "7487-88-9", "molar mass of the heptahydrate"),
+    (
+        "Copper(II) sulfate pentahydrate",
+        "CuSO4·5H2O",
+        159.61,
+        "7758-99-8",
+        "molar mass of the anhydrous salt",
+    ),
+    ("Potassium iodide", "KI", 166.0, "7681-11-1", "CAS check digit wrong"),
+    ("Sodium hydroxide pellets", "NaOH", 40.0, "1310732", "CAS without hyphens (a note)"),
+    ("Zinc oxide", "ZnO", 81.38, "1314-13", "CAS malformed"),
+    ("Sodium carbonate, hydrated", "Na2CO3·xH2O", None, "", "unknown water count"),
+    ("Iron chloride", "FeBr3", 295.56, "", "open charge that fits no reading"),
+    ("Sodium chloride", "KCl", 74.55, "7447-40-7", "a different cation"),
+]
+
+
+def _inventory_rows() -> list[list[object]]:
+    import random
+
+    from cellchem import molar_mass
+
+    rng = random.Random(20261202)
+    rows: list[list[object]] = []
+    number = 1
+    for round_ in range(4):
+        for name, formula, cas in CATALOGUE:
+            mass = round(float(molar_mass(formula)), 2)
+            qty = rng.choice([25, 50, 100, 250, 500, 1000, 2500])
+            unit = "g" if formula not in ("HCl", "H2SO4", "HNO3", "NH3") else "mL"
+            rows.append(
+                [
+                    f"KF-{number:04d}",
+                    rng.choice(LOCATIONS),
+                    name,
+                    formula if round_ % 2 == 0 else formula.replace("·", "."),
+                    mass,
+                    cas,
+                    rng.choice(SUPPLIERS),
+                    qty,
+                    unit,
+                ]
+            )
+            number += 1
+        for name, formula, cas in NOT_INORGANIC:
+            mass = round(float(molar_mass(formula)), 2) if formula else None
+            rows.append(
+                [
+                    f"KF-{number:04d}",
+                    rng.choice(LOCATIONS),
+                    name,
+                    formula,
+                    mass,
+                    cas,
+                    rng.choice(SUPPLIERS),
+                    500,
+                    "mL",
+                ]
+            )
+            number += 1
+    # the seeded lines, spread through the list at fixed places
+    for i, (name, formula, mass, cas, _why) in enumerate(SEEDED):
+        at = 7 + i * 13
+        rows.insert(
+            at,
+            [
+                f"KF-9{i:03d}",
+                LOCATIONS[i % len(LOCATIONS)],
+                name,
+                formula,
+                mass,
+                cas,
+                SUPPLIERS[i % 3],
+                100,
+                "g",
+            ],
+        )
+    return rows
+
+
+INVENTORY_HEADER = [
+    "Stock no.",
+    "Location",
+    "Item",
+    "Formula",
+    "Mol. wt. (g/mol)",
+    "CAS No.",
+    "Supplier",
+    "Qty",
+    "Unit",
+]
+
+
+def _fixed_zip(path: Path) -> None:
+    """Rewrite a workbook package with fixed member times and a fixed
+    modification date, so the demo file is the same bytes on every build."""
+    import re
+    import zipfile
+
+    with zipfile.ZipFile(path) as z:
+        members = [(info, z.read(info.filename)) for info in z.infolist()]
+    with zipfile.ZipFile(path, "w", zipfile.ZIP_DEFLATED) as z:
+        for info, data in members:
+            if info.filename == "docProps/core.xml":
+                data = re.sub(
+                    rb"<dcterms:modified([^>]*)>[^<]*<", rb"<dcterms:modified\1>2026-01-05T09:00:00Z<", data
+                )
+                data = re.sub(
+                    rb"<dcterms:created([^>]*)>[^<]*<", rb"<dcterms:created\1>2026-01-05T09:00:00Z<", data
+                )
+            fixed = zipfile.ZipInfo(info.filename, date_time=(2026, 1, 5, 9, 0, 0))
+            fixed.compress_type = zipfile.ZIP_DEFLATED
+            z.writestr(fixed, data)
+
+
+def inventory_workbook(path: Path) -> None:
+    """The stores' inventory: a 'Stock' sheet with a title above the header, a
+    'Read me' sheet with no table, and a hidden 'Old stock 2019' sheet."""
+    from openpyxl import Workbook
+    from openpyxl.styles import Font
+
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "Stock"
+    ws.append(["Kestrel Fen College - science stores inventory"])
+    ws["A1"].font = Font(bold=True, size=14)
+    ws.append(["Checked by the stores team, January 2026 (invented demo data)"])
+    ws.append([])
+    ws.append(INVENTORY_HEADER)
+    for cell in ws[4]:
+        cell.font = Font(bold=True)
+    for row in _inventory_rows():
+        ws.append(row)
+    ws.freeze_panes = "A5"
+    readme = wb.create_sheet("Read me")
+    readme.append(["This workbook is invented demo data for cellchem."])
+    readme.append(
+        ["Kestrel Fen College, Tarnhollow Scientific, Quillbrook Reagents and Marrowdene Lab Supply"]
+    )
+    readme.append(["are made-up names."])
+    old = wb.create_sheet("Old stock 2019")
+    old.append(["Item", "Formula", "MW"])
+    old.append(["Sodium chloride", "NaCl", 58.44])
+    old.append(["Copper sulfate", "CuSO4", 100])
+    old.sheet_state = "hidden"
+    wb.properties.creator = "Kestrel Fen College stores (invented)"
+    wb.save(path)
+    _fixed_zip(path)
+
+
+SUPPLIER_HEADER = [
+    "Cat. no.",
+    "Product description",
+    "Mol. formula",
+    "Mol. wt.",
+    "CAS-No.",
+    "Pack size",
+    "Unit",
+    "Price GBP",
+]
+
+
+def supplier_table_csv() -> bytes:
+    """A supplier's price list as a European export: semicolons, decimal
+    commas, cp1252, two title lines above the header."""
+    import random
+
+    from cellchem import molar_mass
+
+    rng = random.Random(7)
+    buffer = io.StringIO()
+    writer = csv.writer(buffer, delimiter=";", lineterminator="\r\n")
+    writer.writerow(["Quillbrook Reagents - price list 2026 (invented demo data)"])
+    writer.writerow(["Prices in GBP, excl. VAT; µ = micro; 5 °C storage where marked"])
+    writer.writerow(SUPPLIER_HEADER)
+    for i, (name, formula, cas) in enumerate(CATALOGUE[:40]):
+        mass = f"{float(molar_mass(formula)):.2f}".replace(".", ",")
+        writer.writerow(
+            [
+                f"QR-{1000 + i}",
+                f"{name}, AR grade",
+                formula,
+                mass,
+                cas,
+                rng.choice([100, 250, 500]),
+                "g",
+                f"{rng.uniform(4, 60):.2f}".replace(".", ","),
+            ]
+        )
+    seeded = [
+        ("QR-2001", "Sodium chloride, min. 99.5 %", "NaCl", "58,44", "7647-14-5"),
+        ("QR-2002", "Copper(II) sulphate, 5-hydrate", "CuSO4.5H2O", "159,61", "7758-99-8"),
+        ("QR-2003", "Ferric chloride, anhydrous", "FeCl3", "162,20", "7705-08-0"),
+        ("QR-2004", "Cupric nitrate trihydrate", "Cu(NO3)2.3H2O", "241,60", "10031-43-3"),
+        ("QR-2005", "Sodium bicarbonate", "NaHCO3", "84,01", "144-55-9"),
+        ("QR-2006", "Potassium permanganate", "KMnO4", "158,03", "7722-64-7"),
+        ("QR-2007", "Sodium sulphite", "Na2SO4", "126,04", "7757-83-7"),
+        ("QR-2008", "Calcium chloride, fused", "CaCl2", "147,01", "10043-52-4"),
+        ("QR-2009", "Ammonium ferrous sulfate", "(NH4)2Fe(SO4)2·6H2O", "392,14", "7783-85-9"),
+        ("QR-2010", "Lab detergent concentrate", "", "", ""),
+    ]
+    for cat, name, formula, mass, cas in seeded:
+        writer.writerow([cat, name, formula, mass, cas, 500, "g", "9,99"])
+    return buffer.getvalue().encode("cp1252")
+
+
 def build(target: Path = HERE) -> list[Path]:
     """Write every demo file into ``target``; return their paths."""
     target.mkdir(parents=True, exist_ok=True)
     path = target / "demo-stock-list.csv"
     path.write_text(stock_list_csv(), encoding="utf-8")
-    return [path]
+    inventory = target / "demo-inventory.xlsx"
+    inventory_workbook(inventory)
+    supplier = target / "demo-supplier-table.csv"
+    supplier.write_bytes(supplier_table_csv())
+    return [path, inventory, supplier]
 
 
 if __name__ == "__main__":
