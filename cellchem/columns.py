@@ -227,13 +227,13 @@ def find_layout(rows: Sequence[Sequence[object]], overrides: Mapping[str, str] |
                 break
     if best is None:
         seen = [
-            " | ".join(_text(c) for c in row if _text(c))
+            ", ".join(repr(_text(c)[:40]) for c in row if _text(c))
             for row in rows[:HEADER_SEARCH_ROWS]
             if any(_text(c) for c in row)
-        ][:5]
+        ][:3]
         raise CellchemError(
             "no header row with a name or formula column among the first 20 rows; the first rows read: "
-            + ("; ".join(repr(s[:80]) for s in seen) or "none")
+            + ("; ".join(seen) or "nothing")
             + " (name the columns with --column formula=HEADER_OR_LETTER)"
         )
     index = best[1]

@@ -13,7 +13,7 @@ from pathlib import Path
 from ..audit import Summary, iter_audit
 from ..columns import HEADER_SEARCH_ROWS, column_letter, find_layout
 from ..errors import CellchemError
-from .files import MAX_COLUMNS, UnusableFile
+from .files import MAX_COLUMNS, UnusableFile, one_line
 from .reports import FindingRecord
 
 
@@ -150,6 +150,13 @@ def audit_file(path: str | Path, options: Options, run: AuditRun) -> FileReport:
         report.error = str(exc)
     except MemoryError:
         report.error = f"'{p.name}' needs more memory than this machine has to read"
+    except CellchemError as exc:
+        report.error = f"'{p.name}': {exc}"
+    except Exception as exc:  # a reader's failure on a malformed file must not end the run
+        report.error = (
+            f"'{p.name}' could not be read ({type(exc).__name__}: {one_line(exc)}); open it in a spreadsheet"
+            " program and save it again"
+        )
     return report
 
 

@@ -20,3 +20,10 @@ ABSURD_MIN_CELLS = 10_000_000
 class UnusableFile(Exception):
     """A file cellchem cannot or will not read: the message is one line that
     says why and what would make it usable (exit code 2 at the command line)."""
+
+
+def one_line(exc: object, limit: int = 300) -> str:
+    """An exception's text on one line (a library's message may span several),
+    cut to ``limit`` characters."""
+    text = " ".join(str(exc).split())
+    return text if len(text) <= limit else text[: limit - 3] + "..."

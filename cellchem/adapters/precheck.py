@@ -201,7 +201,35 @@ def precheck(path: str | os.PathLike[str]) -> str:
                     " that holds the data (right-click a sheet tab > Unhide) and save it again",
                 )
             _check_used_ranges(zf, book, sheets, shown)
+            _check_doctypes(zf, shown)
     return "xlsx"
+
+
+_PROLOG_BYTES = 65536
+
+
+def _check_doctypes(zf: zipfile.ZipFile, shown: str) -> None:
+    """Refuse any XML part whose prolog declares a document type (and so may
+    declare entities): no part of a workbook needs one. Only the first 64 KiB
+    of each part are read; defusedxml, under openpyxl, refuses any that hide
+    a declaration further in."""
+    for info in zf.infolist():
+        name = info.filename
+        if not name.lower().endswith((".xml", ".rels", ".vml")):
+            continue
+        try:
+            with zf.open(info) as fh:
+                head = fh.read(_PROLOG_BYTES)
+        except (zipfile.BadZipFile, zlib.error, OSError, EOFError, NotImplementedError, RuntimeError) as exc:
+            raise _damaged(shown, f"the part '{name}' cannot be read ({exc})") from None
+        if head.startswith((b"\xff\xfe", b"\xfe\xff")):
+            head = head.decode("utf-16", errors="ignore").encode("utf-8", errors="ignore")
+        if b"<!DOCTYPE" in head or b"<!ENTITY" in head:
+            raise _refuse(
+                shown,
+                f"holds an XML entity declaration in '{name}', which cellchem refuses (a possible"
+                f" entity-expansion attack): {_ASK}",
+            )
 
 
 def sheet_states(path: str | os.PathLike[str]) -> list[tuple[str, str]]:
@@ -495,7 +523,7 @@ def _check_members(zf: zipfile.ZipFile, shown: str) -> None:
     total = 0
     for info in members:
         name = info.filename
-        if False:
+        if _escapes(name):
             raise _refuse(
                 shown,
                 f"holds a part named '{name}' that points outside the package (an absolute path or '..'),"

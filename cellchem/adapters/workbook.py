@@ -14,7 +14,7 @@ from collections.abc import Iterator
 from dataclasses import dataclass
 from pathlib import Path
 
-from .files import MAX_COLUMNS, MAX_ROWS, UnusableFile
+from .files import MAX_COLUMNS, MAX_ROWS, UnusableFile, one_line
 from .precheck import require_defusedxml, sheet_states
 
 
@@ -45,7 +45,7 @@ class WorkbookReader:
             raise
         except Exception as exc:  # openpyxl raises many kinds on a malformed package
             raise UnusableFile(
-                f"'{self.path.name}' could not be read as a workbook ({type(exc).__name__}: {exc});"
+                f"'{self.path.name}' could not be read as a workbook ({type(exc).__name__}: {one_line(exc)});"
                 " open it in a spreadsheet program and save it again as .xlsx"
             ) from None
 
