@@ -545,6 +545,37 @@ class RowResult:
         return self.columns.get(finding.field, "")
 
 
+def _check_line_cached(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
+    """check_line, remembered for repeated lines (stock lists repeat compounds)."""
+    key = (
+        type(formula),
+        formula,
+        type(mass),
+        mass,
+        type(name),
+        name,
+        type(cas),
+        cas,
+        allowance,
+        decimal_comma,
+    )
+    try:
+        return _LINE_CACHE[key]
+    except KeyError:
+        pass
+    except TypeError:  # an unhashable cell value
+        return check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma)
+    result = check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma)
+    if len(_LINE_CACHE) >= _LINE_CACHE_SIZE:
+        _LINE_CACHE.pop(next(iter(_LINE_CACHE)))
+    _LINE_CACHE[key] = result
+    return result
+
+
+_LINE_CACHE: dict[tuple, LineResult] = {}
+_LINE_CACHE_SIZE = 50_000
+
+
 def _cell(cells: Sequence[object], index: int | None) -> object:
     if index is None or index >= len(cells):
         return None
@@ -567,13 +598,8 @@ def audit_row(
     letters = {r: column_letter(i) for r, i in roles.items()}
     if all(_blank(values[r]) for r in values):
         return RowResult(row, NOT_CHECKED, "no name, formula, molar mass or CAS RN", (), letters)
-    result = check_line(
-        values["formula"],
-        values["molar_mass"],
-        values["name"],
-        values["cas"],
-        mass_allowance=mass_allowance,
-        decimal_comma=decimal_comma,
+    result = _check_line_cached(
+        values["formula"], values["molar_mass"], values["name"], values["cas"], mass_allowance, decimal_comma
     )
     findings = result.findings
     if _blank(values["formula"]):
