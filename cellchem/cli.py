@@ -251,9 +251,97 @@ def _cmd_audit(args: argparse.Namespace) -> int:
             out.write(f"findings workbook written: {args.output}\n")
     except OSError as exc:
         raise UsageError(f"could not write the report: {exc.strerror or exc}") from None
+    if args.annotate:
+        _annotate(args, run, out)
     if run.unusable:
         return EXIT_USAGE
     return EXIT_FINDINGS if run.summary.severities[ERROR] else EXIT_CLEAN
+
+
+def _annotate(args: argparse.Namespace, run, out) -> None:
+    """Write an annotated copy of each usable file: the verdict column, and for
+    a workbook a sheet of its findings."""
+    from .adapters.files import UnusableFile
+    from .adapters.fill import FillOptions, derived_output, fill_file
+    from .columns import read_overrides
+    from .fill import read_columns
+
+    usable = [f for f in run.files if not f.error]
+    if isinstance(args.annotate, str) and len(args.files) > 1:
+        raise UsageError("--annotate PATH names one output: give one input file, or --annotate alone")
+    options = FillOptions(
+        columns=read_columns("verdict"),
+        overrides=read_overrides(args.column or []),
+        sheet=args.sheet,
+        mass_allowance=args.mass_allowance,
+    )
+    for f in usable:
+        src = Path(f.path)
+        target = Path(args.annotate) if isinstance(args.annotate, str) else derived_output(src, "annotated")
+        if target.resolve() == src.resolve():
+            raise UsageError(f"--annotate '{target}' is the input; cellchem never writes the input file")
+        extra = None
+        if f.kind == "xlsx":
+            rows: list[list[object]] = [
+                ["Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion"]
+            ]
+            for r in run.findings:
+                if r.file == f.path:
+                    rows.append([r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion])
+            extra = ("cellchem findings", rows)
+        try:
+            fill_file(src, target, options, extra)
+        except UnusableFile as exc:
+            out.write(f"annotated copy not written for {f.path}: {exc}\n")
+            continue
+        out.write(f"annotated copy written: {target}\n")
+
+
+def _cmd_fill(args: argparse.Namespace) -> int:
+    from .adapters.files import UnusableFile
+    from .adapters.fill import FillOptions, derived_output, fill_file
+    from .adapters.precheck import require_defusedxml
+    from .columns import read_overrides
+    from .errors import CellchemError
+    from .fill import read_columns
+
+    try:
+        require_defusedxml()
+        options = FillOptions(
+            columns=read_columns(args.add),
+            overrides=read_overrides(args.column or []),
+            sheet=args.sheet,
+            overwrite=args.overwrite,
+            mass_allowance=args.mass_allowance,
+        )
+    except (CellchemError, UnusableFile) as exc:
+        raise UsageError(str(exc)) from None
+    src = Path(args.file)
+    out = Path(args.output) if args.output else derived_output(src)
+    if not args.output and out.exists():
+        raise UsageError(f"'{out}' already exists; remove it or name another output with -o")
+    try:
+        report = fill_file(src, out, options)
+    except UnusableFile as exc:
+        raise UsageError(str(exc)) from None
+    except CellchemError as exc:
+        raise UsageError(str(exc)) from None
+    w = sys.stdout.write
+    where = f" sheet '{report.sheet}'," if report.sheet else ""
+    w(f"written: {report.output} (from {report.source},{where} header row {report.header_row})\n")
+    w("columns: " + ", ".join(f"{letter} '{header}'" for letter, header in report.columns) + "\n")
+    w(f"lines filled: {report.filled}\n")
+    not_filled = sum(report.not_filled.values())
+    w(
+        f"lines not filled: {not_filled}"
+        + (" (the check column or cellchem audit says why)" if not_filled else "")
+        + "\n"
+    )
+    if report.kept_existing:
+        w(f"cells kept because they already hold a value or a formula: {report.kept_existing}\n")
+    for note in report.notes:
+        w(f"note: {note}\n")
+    return EXIT_FINDINGS if not_filled else EXIT_CLEAN
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -353,12 +441,64 @@ def build_parser() -> argparse.ArgumentParser:
         " g/mol or 0.01 %%, whichever is larger), e.g. --mass-allowance 0.05",
     )
     audit.add_argument(
+        "--annotate",
+        nargs="?",
+        const=True,
+        default=None,
+        metavar="PATH",
+        help="also write a copy of each file with a 'cellchem check' column (and, for a workbook, a sheet of"
+        " its findings); the copy is named FILE-annotated unless PATH is given, e.g. --annotate",
+    )
+    audit.add_argument(
         "--show",
         default="50",
         metavar="N",
         help="how many findings to print before the summary (default 50; 'all' or 0), e.g. --show all",
     )
     audit.set_defaults(run=_cmd_audit)
+
+    fill = sub.add_parser(
+        "fill",
+        help="write a copy of a workbook or CSV with computed columns added (formula, name, molar mass, ...)",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+        description=(
+            "Write a copy of FILE with computed columns added after the table: canonical formula,"
+            " systematic\n"
+            "name, molar mass, water of crystallisation, cations and anions (or the columns --add names).\n"
+            "Everything else in the workbook is kept as it was; the input is never written.\n\n"
+            "Example: cellchem fill workbooks/demo-inventory.xlsx -o inventory-filled.xlsx\n\n"
+            "Exit codes: 0 written, 1 written but some lines could not be filled, 2 nothing written."
+        ),
+    )
+    fill.add_argument("file", metavar="FILE", help="a .xlsx, .xlsm, .csv or .txt file")
+    fill.add_argument(
+        "-o",
+        "--output",
+        metavar="PATH",
+        help="the new file (default: FILE's name with -filled), e.g. -o out.xlsx",
+    )
+    fill.add_argument("--sheet", metavar="NAME", help="the sheet to fill (default: the first with a table)")
+    fill.add_argument(
+        "--add",
+        metavar="LIST",
+        help="the columns to add, comma-separated: formula, name, molar-mass, water, cations, anions,"
+        " mass-fraction=X, ionic-strength, verdict; e.g. --add molar-mass,mass-fraction=Cu,verdict",
+    )
+    fill.add_argument(
+        "--overwrite",
+        action="store_true",
+        help="replace values in a column cellchem filled before (cells with formulas are never written)",
+    )
+    fill.add_argument(
+        "--column",
+        action="append",
+        metavar="ROLE=HEADER_OR_LETTER",
+        help="say which column holds a role, as for audit, e.g. --column formula=C",
+    )
+    fill.add_argument(
+        "--mass-allowance", type=float, metavar="G_PER_MOL", help="as for audit, e.g. --mass-allowance 0.05"
+    )
+    fill.set_defaults(run=_cmd_fill)
     return parser
 
 

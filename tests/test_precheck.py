@@ -604,7 +604,7 @@ def test_external_entity(tmp_path):
 
 @needs_workbook
 def test_workbook_part_not_well_formed(tmp_path):
-    data = edit(real_workbook(), WORKBOOK, b'<sheet name="Stock"', b"<sheet name=Stock")
+    data = edit(real_workbook(), WORKBOOK, b'name="Stock"', b"name=Stock")  # an unquoted attribute
     assert_words(refusal(write(tmp_path, "stock.xlsx", data)), "is damaged", "not well-formed XML")
 
 

@@ -1,0 +1,421 @@
+"""``cellchem fill`` and ``cellchem audit --annotate``: a copy of the user's
+workbook (or CSV) with computed columns added, everything else kept.
+
+Where the new columns go: right after the last column used anywhere in the
+sheet, and after any merged range or table that reaches further on the rows
+from the header down (so no table has to grow and no merged range is cut). A
+column whose header is already one of cellchem's (a file filled before) is
+filled in place: its empty cells get values, cells holding a value are kept
+unless ``overwrite`` is set, and a cell holding a formula is never written.
+
+Refused (nothing written): a protected sheet, new columns that would pass the
+last spreadsheet column (XFD), an output path that is the input, and any file
+the pre-checks refuse. After writing, the package is verified (see
+``package.verify``); any difference removes the output.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import os
+import tempfile
+import zipfile
+from collections import Counter
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from ..audit import _blank
+from ..columns import HEADER_SEARCH_ROWS, Layout, column_letter, find_layout
+from ..errors import CellchemError
+from ..fill import MASS, NUMBER, FillColumn, fill_line
+from .files import UnusableFile
+from .package import (
+    MAX_SHEET_COLUMNS,
+    NewCell,
+    Styles,
+    cell_value,
+    package_map,
+    rewrite_sheet,
+    scan_sheet,
+    shared_strings,
+    verify,
+    write_package,
+)
+from .reports import defuse
+
+
+@dataclass
+class FillReport:
+    """What a fill wrote."""
+
+    source: str
+    output: str = ""
+    sheet: str = ""
+    header_row: int = 0
+    columns: list[tuple[str, str]] = field(default_factory=list)  # (letter, header)
+    filled: int = 0
+    not_filled: Counter = field(default_factory=Counter)
+    kept_existing: int = 0
+    notes: list[str] = field(default_factory=list)
+
+
+@dataclass(frozen=True)
+class FillOptions:
+    columns: tuple[FillColumn, ...]
+    overrides: dict[str, str] = field(default_factory=dict)
+    sheet: str | None = None
+    overwrite: bool = False
+    mass_allowance: float | None = None
+
+
+def derived_output(path: Path, word: str = "filled") -> Path:
+    """``stock.xlsx`` -> ``stock-filled.xlsx`` beside it."""
+    return path.with_name(f"{path.stem}-{word}{path.suffix}")
+
+
+def _widths(column: FillColumn) -> float:
+    return {"name": 36.0, "verdict": 60.0}.get(column.key, max(12.0, len(column.header) + 2.0))
+
+
+def fill_file(
+    path: str | Path,
+    out: str | Path,
+    options: FillOptions,
+    extra_sheet: tuple[str, list[list[object]]] | None = None,
+) -> FillReport:
+    """Fill ``path`` into a new file ``out``; ``extra_sheet`` (title, rows)
+    adds a sheet of plain cells to a workbook. Raises UnusableFile when
+    nothing could be written."""
+    from .precheck import precheck
+
+    src = Path(path)
+    dst = Path(out)
+    try:
+        if dst.resolve() == src.resolve():
+            raise UnusableFile(f"the output '{dst}' is the input; cellchem never writes the input file")
+    except OSError:
+        pass
+    kind = precheck(src)
+    if kind == "text":
+        return _fill_text(src, dst, options)
+    if dst.suffix.lower() != src.suffix.lower():
+        raise UnusableFile(
+            f"the output '{dst.name}' must keep the input's extension '{src.suffix}' (a workbook with macros"
+            " stays .xlsm)"
+        )
+    return _fill_workbook(src, dst, options, extra_sheet)
+
+
+# ---------------------------------------------------------------------------
+# Workbooks
+# ---------------------------------------------------------------------------
+
+
+def _choose_sheet(src: Path, options: FillOptions, zin, pmap, strings) -> tuple[object, Layout]:
+    from .package import first_rows
+
+    sheets = pmap.sheets
+    wanted = (
+        [s for s in sheets if s.name == options.sheet]
+        if options.sheet
+        else [s for s in sheets if s.state == "visible"]
+    )
+    if options.sheet and not wanted:
+        raise UnusableFile(
+            f"'{src.name}' has no sheet named '{options.sheet}'; its sheets are: "
+            + ", ".join(repr(s.name) for s in sheets)
+        )
+    errors = []
+    for sheet in wanted:
+        head = first_rows(zin, sheet.part, strings, HEADER_SEARCH_ROWS)
+        try:
+            return sheet, find_layout(head, options.overrides)
+        except CellchemError as exc:
+            errors.append(f"sheet '{sheet.name}': {exc}")
+    raise UnusableFile(f"'{src.name}': no sheet holds a table to fill ({'; '.join(errors) or 'no sheets'})")
+
+
+def _fill_workbook(
+    src: Path, dst: Path, options: FillOptions, extra_sheet: tuple[str, list[list[object]]] | None = None
+) -> FillReport:
+    report = FillReport(str(src))
+    with zipfile.ZipFile(src) as zin:
+        pmap = package_map(zin)
+        strings = shared_strings(zin, pmap.shared_strings)
+        sheet, layout = _choose_sheet(src, options, zin, pmap, strings)
+        report.sheet = sheet.name
+        header_row = layout.header_index + 1
+        report.header_row = header_row
+        scan = scan_sheet(zin, sheet.part)
+        if scan.protected:
+            raise UnusableFile(
+                f"sheet '{sheet.name}' of '{src.name}' is protected; cellchem does not write into a protected"
+                " sheet: unprotect it (Review > Unprotect Sheet) and run fill again"
+            )
+        # where the columns go
+        start = scan.max_column + 1
+        for _c1, c2, _r1, r2 in scan.merged:
+            if r2 >= header_row:
+                start = max(start, c2 + 1)
+        for _name, _c1, c2, _r1, r2 in scan.tables:
+            if r2 >= header_row:
+                start = max(start, c2 + 1)
+        folded = {_same_heading(h): i for i, h in enumerate(layout.headers) if h}
+        targets: list[tuple[FillColumn, int, bool]] = []  # column, index, new?
+        next_col = start
+        for column in options.columns:
+            existing = folded.get(_same_heading(column.header))
+            if existing is not None:
+                targets.append((column, existing, False))
+                report.notes.append(
+                    f"column {column_letter(existing)} '{column.header}' already exists: filled in place"
+                )
+            else:
+                targets.append((column, next_col, True))
+                next_col += 1
+        if next_col > MAX_SHEET_COLUMNS:
+            raise UnusableFile(
+                f"sheet '{sheet.name}' of '{src.name}' has no room for {len(options.columns)} more columns"
+                f" after column {column_letter(start - 1)} (the last column is XFD)"
+            )
+        report.columns = [(column_letter(i), c.header) for c, i, _new in targets]
+        for name, _c1, c2, _r1, r2 in scan.tables:
+            if r2 >= header_row:
+                report.notes.append(
+                    f"table '{name}' ends at column {column_letter(c2)}; the new columns sit beside it, not"
+                    " in it"
+                )
+        styles = Styles(zin.read(pmap.styles) if pmap.styles and pmap.styles in zin.namelist() else None)
+        roles = layout.roles
+        last_heading = max((i for i, h in enumerate(layout.headers) if h), default=0)
+        header_style: list[int | None] = [None]
+
+        def style_of(cells, index) -> int | None:
+            c = cells.get(index)
+            if c is None or c.get("s") is None:
+                return None
+            try:
+                return int(c.get("s"))
+            except ValueError:
+                return None
+
+        def number_style(base: int | None, kind: str) -> int | None:
+            if styles.root is None:
+                return base
+            return styles.with_number_format(base or 0, 2 if kind == MASS else 0)
+
+        def hook(number: int, cells) -> list[NewCell]:
+            if number < header_row:
+                return []
+            if number == header_row:
+                header_style[0] = style_of(cells, last_heading)
+                return [NewCell(i, c.header, header_style[0]) for c, i, new in targets if new]
+            values = {
+                role: cell_value(cells[index], strings) if index in cells else None
+                for role, index in roles.items()
+            }
+            if all(_blank(v) for v in values.values()):
+                return []
+            line = fill_line(
+                options.columns,
+                values.get("formula"),
+                values.get("name"),
+                values.get("molar_mass"),
+                values.get("cas"),
+                values.get("concentration"),
+                values.get("unit"),
+                mass_allowance=options.mass_allowance,
+            )
+            if line.filled:
+                report.filled += 1
+            else:
+                report.not_filled[line.verdict.split(":", 1)[0] if line.verdict else "not read"] += 1
+            base = style_of(cells, last_heading)
+            out = []
+            for (column, index, _new), value in zip(targets, line.values):
+                if value is None:
+                    continue
+                style = number_style(base, column.kind) if column.kind in (MASS, NUMBER) else base
+                out.append(NewCell(index, value, style, options.overwrite))
+            return out
+
+        widths = [(i, _widths(c)) for c, i, new in targets if new and not _covered(scan.col_ranges, i)]
+        last = max([scan.max_column] + [i for _c, i, _n in targets])
+        with tempfile.TemporaryFile() as sheet_tmp:
+            result = rewrite_sheet(zin, sheet.part, sheet_tmp, hook, widths, last)
+            report.kept_existing = result.skipped_existing
+            styles_data = styles.data()
+
+            def copy_sheet(out_fh) -> None:
+                sheet_tmp.seek(0)
+                while chunk := sheet_tmp.read(1 << 20):
+                    out_fh.write(chunk)
+
+            replacements = {sheet.part: copy_sheet}
+            changed = {sheet.part}
+            if styles.changed and pmap.styles:
+                replacements[pmap.styles] = lambda fh: fh.write(styles_data)
+                changed.add(pmap.styles)
+            additions: dict[str, bytes] = {}
+            if extra_sheet is not None:
+                from .package import added_sheet
+
+                parts, additions, title = added_sheet(zin, pmap, extra_sheet[0], extra_sheet[1])
+                for name, data in parts.items():
+                    replacements[name] = (lambda d: lambda fh: fh.write(d))(data)
+                    changed.add(name)
+                report.notes.append(f"sheet '{title}' added")
+            _write_verified(
+                zin, dst, replacements, changed, sheet.part, frozenset(result.overwritten), additions or None
+            )
+    report.output = str(dst)
+    return report
+
+
+def _same_heading(text: str) -> str:
+    """A heading compared exactly, but for case and spaces ('Formula (canonical)' is not 'Formula')."""
+    return " ".join(str(text).split()).casefold()
+
+
+def _covered(ranges: list[tuple[int, int]], index: int) -> bool:
+    return any(lo <= index <= hi for lo, hi in ranges)
+
+
+def _write_verified(zin, dst: Path, replacements, changed, sheet_part, overwritten, additions=None) -> None:
+    folder = dst.parent if str(dst.parent) else Path(".")
+    fd, tmp = tempfile.mkstemp(prefix=".cellchem-", suffix=dst.suffix, dir=folder)
+    os.close(fd)
+    try:
+        write_package(zin, tmp, replacements, additions)
+        with zipfile.ZipFile(tmp) as zcheck:
+            verify(zin, zcheck, changed, sheet_part, set(additions or {}), overwritten)
+        os.replace(tmp, dst)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+
+
+# ---------------------------------------------------------------------------
+# Text exports
+# ---------------------------------------------------------------------------
+
+
+def _raw_records(text: str) -> list[tuple[str, str]]:
+    """(record text, line ending) for each record of a CSV text, split as the
+    csv module splits them (a line ending inside double quotes belongs to the
+    record)."""
+    out: list[tuple[str, str]] = []
+    i = 0
+    start = 0
+    quoted = False
+    n = len(text)
+    while i < n:
+        ch = text[i]
+        if ch == '"':
+            quoted = not quoted
+        elif not quoted and ch in "\r\n":
+            end = i
+            if ch == "\r" and i + 1 < n and text[i + 1] == "\n":
+                i += 1
+            out.append((text[start:end], text[end : i + 1]))
+            start = i + 1
+        i += 1
+    if start < n:
+        out.append((text[start:], ""))
+    return out
+
+
+def _encode_like(original: bytes, text: str, encoding: str) -> bytes:
+    if original.startswith(b"\xef\xbb\xbf"):
+        return b"\xef\xbb\xbf" + text.encode("utf-8")
+    if original.startswith(b"\xff\xfe"):
+        return b"\xff\xfe" + text.encode("utf-16-le")
+    if original.startswith(b"\xfe\xff"):
+        return b"\xfe\xff" + text.encode("utf-16-be")
+    return text.encode(encoding)
+
+
+def _csv_number(value: float, kind: str, decimal_comma: bool) -> str:
+    text = f"{value:.2f}" if kind == MASS else f"{value:.6g}"
+    return text.replace(".", ",") if decimal_comma else text
+
+
+def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
+    from .textfile import read_text_table
+
+    report = FillReport(str(src))
+    table = read_text_table(src)
+    raw = src.read_bytes()
+    encoding = table.encoding
+    text = raw.decode(encoding if encoding not in ("utf-16",) else "utf-16")
+    if text.startswith("\ufeff"):
+        text = text[1:]
+    records = _raw_records(text)
+    rows = [list(r) for r in table.rows]
+    try:
+        layout = find_layout(rows[:HEADER_SEARCH_ROWS], options.overrides)
+    except CellchemError as exc:
+        raise UnusableFile(f"'{src.name}': {exc}") from None
+    header_line = table.line_numbers[layout.header_index]
+    report.header_row = header_line
+    width = len(layout.headers)
+    report.columns = [(column_letter(width + k), c.header) for k, c in enumerate(options.columns)]
+    by_line = {line: i for i, line in enumerate(table.line_numbers)}
+    record_lines = []
+    line = 1
+    for body, ending in records:
+        record_lines.append(line)
+        line += body.count("\n") + body.count("\r") - body.count("\r\n") + (1 if ending else 0)
+
+    def encode_cells(cells: list[str]) -> str:
+        buf = io.StringIO()
+        csv.writer(buf, delimiter=table.delimiter, lineterminator="").writerow(cells)
+        return buf.getvalue()
+
+    out_parts: list[str] = []
+    for (body, ending), start_line in zip(records, record_lines):
+        index = by_line.get(start_line)
+        suffix = ""
+        if index is not None and start_line == header_line:
+            pad = max(width - len(table.rows[index]), 0)
+            suffix = table.delimiter * (pad + 1) + encode_cells([defuse(c.header) for c in options.columns])
+        elif (
+            index is not None and start_line > header_line and any(str(c).strip() for c in table.rows[index])
+        ):
+            cells = table.rows[index]
+            values = {role: (cells[i] if i < len(cells) else None) for role, i in layout.roles.items()}
+            line_result = fill_line(
+                options.columns,
+                values.get("formula"),
+                values.get("name"),
+                values.get("molar_mass"),
+                values.get("cas"),
+                values.get("concentration"),
+                values.get("unit"),
+                mass_allowance=options.mass_allowance,
+                decimal_comma=table.decimal_comma,
+            )
+            if line_result.filled:
+                report.filled += 1
+            else:
+                report.not_filled[line_result.verdict.split(":", 1)[0]] += 1
+            shown = []
+            for column, value in zip(options.columns, line_result.values):
+                if value is None:
+                    shown.append("")
+                elif isinstance(value, int | float) and not isinstance(value, bool):
+                    shown.append(_csv_number(float(value), column.kind, table.decimal_comma))
+                else:
+                    shown.append(defuse(str(value)))
+            pad = max(width - len(cells), 0)
+            suffix = table.delimiter * (pad + 1) + encode_cells(shown)
+        out_parts.append(body + suffix + ending)
+    data = _encode_like(raw, "".join(out_parts), encoding)
+    folder = dst.parent if str(dst.parent) else Path(".")
+    fd, tmp = tempfile.mkstemp(prefix=".cellchem-", suffix=dst.suffix, dir=folder)
+    with os.fdopen(fd, "wb") as fh:
+        fh.write(data)
+    os.replace(tmp, dst)
+    report.output = str(dst)
+    return report
