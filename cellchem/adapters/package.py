@@ -461,6 +461,9 @@ class RewriteResult:
     overwritten: set[str] = field(default_factory=set)  # refs of cells whose value was replaced
 
 
+_ROOT_START = re.compile(rb"<(?![?!])((?:[A-Za-z_][\w.-]*:)?)worksheet\b[^>]*>")
+
+
 def rewrite_sheet(
     zin: zipfile.ZipFile,
     part: str,
@@ -472,11 +475,29 @@ def rewrite_sheet(
     """Stream a sheet part to ``out``, calling ``hook(row_number, cells)`` for
     each row (cells: 0-based column -> ``<c>``) and adding the cells it
     returns. ``new_columns`` lists (column, width) for columns that get a
-    ``<col>`` width; ``last_column`` is the new last column, for the dimension."""
+    ``<col>`` width; ``last_column`` is the new last column, for the dimension.
+
+    The prolog and the root start tag are copied as they were; each element
+    below the root is serialized by lxml with the namespace declarations the
+    root already makes left out, so the part reads as the original did."""
     result = RewriteResult()
-    with zin.open(part) as src, etree.xmlfile(out, encoding="UTF-8") as xf:
-        xf.write_declaration(standalone=True)
-        contexts: list = []
+    with zin.open(part) as raw:
+        head = raw.read(1 << 16)
+    m = _ROOT_START.search(head)
+    if m is None:
+        raise UnusableFile(f"the sheet part '{part}' has no worksheet element in its first 64 KiB")
+    prefix = m.group(1)
+    out.write(head[: m.end()])
+    declarations: list[bytes] = []
+    nsmap: dict = {}
+
+    def emit(el: etree._Element) -> None:
+        data = etree.tostring(el, with_tail=False)
+        for decl in declarations:
+            data = data.replace(decl, b"")
+        out.write(data)
+
+    with zin.open(part) as src:
         depth = 0
         wrote_cols = False
         for event, el in etree.iterparse(
@@ -485,34 +506,36 @@ def rewrite_sheet(
             if event == "start":
                 depth += 1
                 if depth == 1:
-                    ctx = xf.element(el.tag, dict(el.attrib), nsmap=el.nsmap)
-                    ctx.__enter__()
-                    contexts.append(ctx)
+                    nsmap = dict(el.nsmap)
+                    for key, uri in nsmap.items():
+                        name = b"xmlns" if key is None else b"xmlns:" + key.encode()
+                        declarations.append(b" " + name + b'="' + uri.encode() + b'"')
                 elif depth == 2 and el.tag == _q("sheetData"):
                     if not wrote_cols and new_columns:
-                        xf.write(_cols(new_columns))
+                        emit(_cols(new_columns, nsmap))
                         wrote_cols = True
-                    ctx = xf.element(el.tag, dict(el.attrib))
-                    ctx.__enter__()
-                    contexts.append(ctx)
+                    shell = etree.Element(el.tag, dict(el.attrib), nsmap=nsmap)
+                    opening = etree.tostring(shell)
+                    for decl in declarations:
+                        opening = opening.replace(decl, b"")
+                    out.write(opening[:-2] + b">" if opening.endswith(b"/>") else opening.split(b"</")[0])
                 continue
-            # end
             depth -= 1
             if depth == 0:
-                contexts.pop().__exit__(None, None, None)
+                out.write(b"</" + prefix + b"worksheet>")
                 continue
             if depth == 1:
                 tag = el.tag
                 if tag == _q("sheetData"):
-                    contexts.pop().__exit__(None, None, None)
+                    out.write(b"</" + prefix + b"sheetData>")
                 else:
                     if tag == _q("dimension"):
                         _grow_dimension(el, last_column)
                     elif tag == _q("cols") and new_columns:
-                        for col in _cols(new_columns):
+                        for col in _cols(new_columns, nsmap):
                             el.append(col)
                         wrote_cols = True
-                    xf.write(el)
+                    emit(el)
                 el.clear()
                 parent = el.getparent()
                 if parent is not None:
@@ -521,7 +544,7 @@ def rewrite_sheet(
                 continue
             if depth == 2 and el.tag == _q("row"):
                 _process_row(el, hook, result)
-                xf.write(el)
+                emit(el)
                 el.clear()
                 parent = el.getparent()
                 while el.getprevious() is not None:
@@ -529,8 +552,8 @@ def rewrite_sheet(
     return result
 
 
-def _cols(columns: list[tuple[int, float]]) -> etree._Element:
-    cols = etree.Element(_q("cols"))
+def _cols(columns: list[tuple[int, float]], nsmap: dict | None = None) -> etree._Element:
+    cols = etree.Element(_q("cols"), nsmap=nsmap)
     for column, width in columns:
         etree.SubElement(
             cols, _q("col"), min=str(column + 1), max=str(column + 1), width=f"{width:g}", customWidth="1"
