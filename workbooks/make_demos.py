@@ -474,6 +474,92 @@ def supplier_table_csv() -> bytes:
     return buffer.getvalue().encode("cp1252")
 
 
+# ---------------------------------------------------------------------------
+# The worksheet-functions demo
+# ---------------------------------------------------------------------------
+
+# Each row: a label, then a formula that uses one function on the stock list
+# above it (rows 4-9). The Excel and LibreOffice layers compute them; a test
+# evaluates them with an independent formula engine and compares with the core.
+FUNCTION_DEMOS = [
+    ("Formula from the name", "=CC_FORMULA(A5)"),
+    ("Systematic name", "=CC_NAME(B6)"),
+    ("Legacy name", '=CC_NAME(B7,"legacy")'),
+    ("Salt of Al3+ and sulfate", '=CC_SALT("Al3+","sulfate")'),
+    ("Molar mass (g/mol)", "=CC_MOLARMASS(B5)"),
+    ("Mass fraction of Cu", '=CC_MASSFRACTION(B5,"Cu")'),
+    ("Net charge of SO4 2-", '=CC_NETCHARGE("SO4 2-")'),
+    ("Oxidation state of Mn", '=CC_OXSTATE(B8,"Mn")'),
+    ("Balanced?", "=CC_BALANCED(B9)"),
+    ("Line check", "=CC_CHECKLINE(A9,B9,C9,D9)"),
+    ("CAS RN valid?", "=CC_CASVALID(D6)"),
+    ("Ionic strength (mol/L)", '=CC_IONICSTRENGTH("MgCl2",0.1)'),
+    ("Activity of Ca2+ at I = 0.01", '=CC_ACTIVITY("Ca2+",0.01,"extended")'),
+    ("Conductivity of 0.01 M KCl (uS/cm)", '=CC_CONDUCTIVITY("KCl",0.01)'),
+    ("Grams of CuSO4.5H2O for 250 mL of 0.1 M CuSO4", '=CC_GRAMS("CuSO4",0.1,"250 mL",1,"CuSO4.5H2O")'),
+    ("37 % w/w HCl (1.18 g/mL) in mol/L", '=CC_CONVERT(37,"% w/w","mol/L","HCl",1.18)'),
+    ("Message behind a refusal", '=CC_FULLMESSAGE(CC_MOLARMASS(B9&"Xx"))'),
+]
+FUNCTION_STOCK = [
+    ("Item", "Formula", "MW", "CAS No."),
+    ("Copper(II) sulfate pentahydrate", "CuSO4·5H2O", 249.68, "7758-99-8"),
+    ("Sodium chloride", "NaCl", 58.44, "7647-14-5"),
+    ("Ferric chloride", "FeCl3", 162.2, "7705-08-0"),
+    ("Potassium manganate(VII)", "KMnO4", 158.03, "7722-64-7"),
+    ("Sodium chloride", "NaCl2", 58.44, "7647-14-5"),
+]
+
+
+def functions_workbook(path: Path) -> None:
+    """A sheet using every CC_ function on a short invented stock list, with
+    the range forms (a column of molar masses, the spilled ions of a salt)."""
+    from openpyxl import Workbook
+    from openpyxl.styles import Font
+    from openpyxl.worksheet.formula import ArrayFormula
+
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "Functions"
+    ws.append(["cellchem worksheet functions - Kestrel Fen College stores (invented demo data)"])
+    ws["A1"].font = Font(bold=True, size=14)
+    ws.append(["Install the cellchem functions (README, Worksheet functions) to compute the cells below."])
+    ws.append([])
+    for row in FUNCTION_STOCK:
+        ws.append(list(row))
+    for cell in ws[4]:
+        cell.font = Font(bold=True)
+    ws["E4"] = "Molar mass (range)"
+    ws["E4"].font = Font(bold=True)
+    ws["E5"] = ArrayFormula("E5:E9", "=CC_MOLARMASS(B5:B9)")
+    ws.append([])
+    start = ws.max_row + 1
+    ws.cell(row=start, column=1, value="What").font = Font(bold=True)
+    ws.cell(row=start, column=2, value="Result").font = Font(bold=True)
+    ws.cell(row=start, column=3, value="Formula used").font = Font(bold=True)
+    for i, (label, formula) in enumerate(FUNCTION_DEMOS, start + 1):
+        ws.cell(row=i, column=1, value=label)
+        ws.cell(row=i, column=2, value=formula)
+        text = ws.cell(row=i, column=3, value=formula)
+        text.data_type = "s"  # shown as text beside the live formula
+        text.quotePrefix = True
+    row = start + len(FUNCTION_DEMOS) + 2
+    ws.cell(row=row, column=1, value="Ions of Al2(SO4)3 (spilled)")
+    ws.cell(row=row, column=2).value = ArrayFormula(f"B{row}:D{row + 1}", '=CC_IONS("Al2(SO4)3")')
+    row += 3
+    ws.cell(row=row, column=1, value="Ion balance (meq/L)")
+    for k, (ion, value) in enumerate([("Ca2+", 2.0), ("Mg2+", 1.0), ("HCO3-", 2.5), ("Cl-", 0.45)]):
+        ws.cell(row=row + 1 + k, column=1, value=ion)
+        ws.cell(row=row + 1 + k, column=2, value=value)
+    ws.cell(row=row, column=2).value = ArrayFormula(
+        f"C{row}:F{row}", f'=CC_IONBALANCE(A{row + 1}:A{row + 4},B{row + 1}:B{row + 4},"meq/L")'
+    )
+    ws.column_dimensions["A"].width = 46
+    ws.column_dimensions["B"].width = 30
+    ws.column_dimensions["C"].width = 50
+    wb.save(path)
+    _fixed_zip(path)
+
+
 def build(target: Path = HERE) -> list[Path]:
     """Write every demo file into ``target``; return their paths."""
     target.mkdir(parents=True, exist_ok=True)
@@ -483,7 +569,9 @@ def build(target: Path = HERE) -> list[Path]:
     inventory_workbook(inventory)
     supplier = target / "demo-supplier-table.csv"
     supplier.write_bytes(supplier_table_csv())
-    return [path, inventory, supplier]
+    functions = target / "demo-worksheet-functions.xlsx"
+    functions_workbook(functions)
+    return [path, inventory, supplier, functions]
 
 
 if __name__ == "__main__":

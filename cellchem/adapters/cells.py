@@ -1,0 +1,209 @@
+"""Cell values in and out of the worksheet functions: the rules the Excel
+(xlwings) and LibreOffice Calc layers share.
+
+In: a single cell arrives as a scalar, a range as a 2-D list (rows of
+values); empty cells are ``None``; numbers are floats; Excel error values
+arrive as their text (``'#N/A'``) or as the integer codes COM uses.
+
+Out: a function of one compound given a range returns a 2-D list of the same
+shape (it spills); empty in gives empty out; numbers stay numbers; an error
+value in gives the same error value out; bad chemistry input never raises:
+the cell shows a short message that starts with ``MARK`` (so a filter on
+that text finds every refusal), and ``full_message`` gives the whole of it.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import OrderedDict
+from collections.abc import Callable, Sequence
+
+from ..errors import CellchemError
+
+MARK = "#cellchem: "
+SHORT = 80  # characters of the message shown in the cell, after the mark
+
+EXCEL_ERRORS = frozenset(
+    {"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A", "#GETTING_DATA", "#SPILL!", "#CALC!"}
+)
+# the codes COM gives for error cells (xlwings on Windows without err_to_str)
+COM_ERRORS = {
+    -2146826281: "#DIV/0!",
+    -2146826246: "#N/A",
+    -2146826259: "#NAME?",
+    -2146826288: "#NULL!",
+    -2146826252: "#NUM!",
+    -2146826265: "#REF!",
+    -2146826273: "#VALUE!",
+}
+
+_FULL: OrderedDict[str, str] = OrderedDict()
+_FULL_SIZE = 10_000
+
+
+class _Refusal(Exception):
+    """A cell whose input is itself an error value: passed through."""
+
+    def __init__(self, value: str) -> None:
+        super().__init__(value)
+        self.value = value
+
+
+def error_value(v: object) -> str | None:
+    """The error text of an Excel error value, or None."""
+    if isinstance(v, str) and v in EXCEL_ERRORS:
+        return v
+    if isinstance(v, int) and not isinstance(v, bool) and v in COM_ERRORS:
+        return COM_ERRORS[v]
+    return None
+
+
+def blank(v: object) -> bool:
+    return v is None or (isinstance(v, str) and not v.strip())
+
+
+def refusal(exc: Exception) -> str:
+    """The short marked text for a refusal; the full text is kept for ``full_message``."""
+    message = str(exc)
+    short = MARK + (message if len(message) <= SHORT else message[: SHORT - 3].rstrip() + "...")
+    _FULL[short] = message
+    _FULL.move_to_end(short)
+    while len(_FULL) > _FULL_SIZE:
+        _FULL.popitem(last=False)
+    return short
+
+
+def full_message(text: object) -> str:
+    """The whole message behind a short marked text (as long as it was made
+    in this session), the text itself otherwise."""
+    if not isinstance(text, str):
+        return "" if text is None else str(text)
+    return _FULL.get(text, text[len(MARK) :] if text.startswith(MARK) else text)
+
+
+def as_grid(v: object) -> tuple[list[list[object]], bool]:
+    """(rows, was a range): a scalar becomes [[v]]."""
+    if isinstance(v, list | tuple):
+        if v and all(isinstance(r, list | tuple) for r in v):
+            return [list(r) for r in v], True
+        return [list(v)], True
+    return [[v]], False
+
+
+def text(v: object, what: str) -> str:
+    """A text argument: strings as they are; a whole number as its digits
+    (a CAS RN or a count typed as a number); other numbers refused."""
+    if isinstance(v, str):
+        return v.strip()
+    if isinstance(v, bool):
+        raise CellchemError(f"{what}: expected text, read {v!r}")
+    if isinstance(v, int | float) and math.isfinite(v) and float(v).is_integer():
+        return str(int(v))
+    raise CellchemError(f"{what}: expected text, read {v!r}")
+
+
+def number(v: object, what: str) -> float:
+    """A number argument: floats and ints; text that is a number."""
+    if isinstance(v, bool):
+        raise CellchemError(f"{what}: expected a number, read {v!r}")
+    if isinstance(v, int | float):
+        if not math.isfinite(v):
+            raise CellchemError(f"{what}: {v!r} is not a finite number")
+        return float(v)
+    if isinstance(v, str):
+        try:
+            out = float(v.strip())
+        except ValueError:
+            raise CellchemError(f"{what}: expected a number, read {v!r}") from None
+        if math.isfinite(out):
+            return out
+    raise CellchemError(f"{what}: expected a number, read {v!r}")
+
+
+def quantity(v: object, what: str) -> float | str:
+    """A number or text with a unit (``'250 mL'``), for the core's unit readers."""
+    if isinstance(v, str):
+        return v.strip()
+    return number(v, what)
+
+
+def out(value: object) -> object:
+    """A result for a cell: numbers as floats, None as empty, the rest as is."""
+    if isinstance(value, bool) or value is None or isinstance(value, str):
+        return value
+    if isinstance(value, int | float):
+        return float(value)
+    return str(value)
+
+
+def cellwise(
+    fn: Callable[..., object],
+    args: Sequence[object],
+    blank_when: Callable[[list[object]], bool] | None = None,
+) -> object:
+    """Apply ``fn`` to each cell of the arguments, broadcast: every range
+    argument must have one shape; single cells apply to every cell. The first
+    argument blank (or ``blank_when(values)``) gives a blank result; an error
+    value in any argument gives that error value; a CellchemError gives the
+    marked refusal."""
+    grids = [as_grid(a) for a in args]
+    shapes = {
+        (len(g), len(g[0]) if g else 0)
+        for g, was in grids
+        if was and (len(g), len(g[0]) if g else 0) != (1, 1)
+    }
+    if len(shapes) > 1:
+        return refusal(
+            CellchemError(
+                "the ranges given have different shapes: " + ", ".join(f"{r}x{c}" for r, c in sorted(shapes))
+            )
+        )
+    any_range = any(was for _g, was in grids)
+    rows, cols = shapes.pop() if shapes else (1, 1)
+    result: list[list[object]] = []
+    for i in range(rows):
+        line: list[object] = []
+        for j in range(cols):
+            values = [g[i][j] if (len(g), len(g[0])) != (1, 1) else g[0][0] for g, _was in grids]
+            line.append(_one(fn, values, blank_when))
+        result.append(line)
+    return result if any_range else result[0][0]
+
+
+def _one(
+    fn: Callable[..., object], values: list[object], blank_when: Callable[[list[object]], bool] | None = None
+) -> object:
+    for v in values:
+        err = error_value(v)
+        if err is not None:
+            return err
+    if (blank_when or _first_blank)(values):
+        return None
+    try:
+        return out(fn(*values))
+    except CellchemError as exc:
+        return refusal(exc)
+
+
+def _first_blank(values: list[object]) -> bool:
+    return blank(values[0])
+
+
+def flat(v: object) -> list[object]:
+    """Every cell of a range, row by row (blank cells kept)."""
+    rows, _ = as_grid(v)
+    return [x for r in rows for x in r]
+
+
+def aggregate(fn: Callable[..., object], *args: object) -> object:
+    """Apply ``fn`` to whole ranges (the functions over a solution's
+    solutes); errors in or a refusal give one marked cell."""
+    for a in args:
+        for v in flat(a):
+            err = error_value(v)
+            if err is not None:
+                return err
+    try:
+        return fn(*args)
+    except CellchemError as exc:
+        return refusal(exc)
