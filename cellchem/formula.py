@@ -744,8 +744,58 @@ def parse_formula(text: str) -> Formula:
     return _parse_formula(text)
 
 
+_SIMPLE_PART = re.compile(r"(?:[A-Z][a-z]?(?:[1-9][0-9]{0,4})?)+")
+_SIMPLE_ATOM = re.compile(r"([A-Z][a-z]?)([1-9][0-9]{0,4})?")
+_SIMPLE = re.compile(r"([A-Z][A-Za-z0-9]*)(?:([·.])([1-9][0-9]{0,2})?([A-Z][A-Za-z0-9]*))?")
+
+
+def _simple_items(text: str) -> tuple[Atom, ...] | None:
+    if not _SIMPLE_PART.fullmatch(text):
+        return None
+    known = symbols()
+    items = []
+    for m in _SIMPLE_ATOM.finditer(text):
+        symbol, count = m.group(1), m.group(2)
+        n = int(count) if count else 1
+        if symbol not in known or n > MAX_COUNT:
+            return None
+        items.append(Atom(symbol, n))
+    return tuple(items)
+
+
+def _fast_parse(text: str) -> Formula | None:
+    """The common simple formulas (element symbols with counts, and at most
+    one hydrate or adduct part such as '·5H2O') read without the grammar;
+    None for anything else, which the grammar then reads (or refuses). Gives
+    exactly the Formula the grammar gives (a property test checks it)."""
+    if len(text) > MAX_LENGTH:
+        return None
+    m = _SIMPLE.fullmatch(text)
+    if m is None:
+        return None
+    first = _simple_items(m.group(1))
+    if first is None:
+        return None
+    if m.group(2) is None:
+        return Formula((Part(first, 1),), 0, text)
+    second = _simple_items(m.group(4))
+    if second is None or len(second) < 2:  # a lone atom after '.' may be a decimal count: the grammar decides
+        return None
+    if m.group(2) == "." and m.group(1)[-1].isdigit() and _DECIMAL_COUNT.search(text):
+        return None
+    multiplier = int(m.group(3)) if m.group(3) else 1
+    return Formula((Part(first, 1), Part(second, multiplier)), 0, text)
+
+
 @lru_cache(maxsize=65536)
 def _parse_formula(text: str) -> Formula:
+    fast = _fast_parse(text)
+    if fast is not None:
+        return fast
+    return _parse_with_grammar(text)
+
+
+def _parse_with_grammar(text: str) -> Formula:
     if len(text) > MAX_LENGTH:
         raise FormulaError(
             f"the text beginning '{text[:20]}' is {len(text)} characters long, too long to be a"
