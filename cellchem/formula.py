@@ -744,32 +744,52 @@ def parse_formula(text: str) -> Formula:
     return _parse_formula(text)
 
 
-_SIMPLE_PART = re.compile(r"(?:[A-Z][a-z]?(?:[1-9][0-9]{0,4})?)+")
-_SIMPLE_ATOM = re.compile(r"([A-Z][a-z]?)([1-9][0-9]{0,4})?")
-_SIMPLE = re.compile(r"([A-Z][A-Za-z0-9]*)(?:([·.])([1-9][0-9]{0,2})?([A-Z][A-Za-z0-9]*))?")
+_SIMPLE = re.compile(r"([A-Z(\[][A-Za-z0-9()\[\]]*)(?:([·.])([1-9][0-9]{0,2})?([A-Z(][A-Za-z0-9()\[\]]*))?")
 
 
-def _simple_items(text: str) -> tuple[Atom, ...] | None:
-    if not _SIMPLE_PART.fullmatch(text):
-        return None
+_STOCK_NUMBER = re.compile(r"(?<=[A-Za-z])\s*(\((?:I{1,3}|IV|VI{0,3}|IX|X)\))(?!\d)")
+_SIMPLE_TOKEN = re.compile(r"([A-Z][a-z]?)([1-9][0-9]{0,4})?|([(\[])|([)\]])([1-9][0-9]{0,4})?")
+
+
+def _simple_items(text: str) -> tuple[Item, ...] | None:
+    """Atoms and bracketed groups with counts, or None for anything else."""
     known = symbols()
-    items = []
-    for m in _SIMPLE_ATOM.finditer(text):
-        symbol, count = m.group(1), m.group(2)
-        n = int(count) if count else 1
-        if symbol not in known or n > MAX_COUNT:
+    stack: list[tuple[str, list[Item]]] = [("", [])]
+    pos = 0
+    for m in _SIMPLE_TOKEN.finditer(text):
+        if m.start() != pos:
             return None
-        items.append(Atom(symbol, n))
-    return tuple(items)
+        pos = m.end()
+        symbol, count, opening, closing, group_count = m.groups()
+        if symbol:
+            n = int(count) if count else 1
+            if symbol not in known or n > MAX_COUNT:
+                return None
+            stack[-1][1].append(Atom(symbol, n))
+        elif opening:
+            if len(stack) > 2:
+                return None  # deep nesting: the grammar decides (and bounds it)
+            stack.append((opening, []))
+        else:
+            bracket, items = stack.pop() if len(stack) > 1 else ("", [])
+            if not bracket or {"(": ")", "[": "]"}[bracket] != closing or not items:
+                return None
+            n = int(group_count) if group_count else 1
+            if n > MAX_COUNT or (n == 1 and bracket == "("):
+                return None  # a '(...)' without a count: the grammar decides how to read it
+            stack[-1][1].append(Group(tuple(items), n, bracket))
+    if pos != len(text) or len(stack) != 1 or not stack[0][1]:
+        return None
+    return tuple(stack[0][1])
 
 
 def _fast_parse(text: str) -> Formula | None:
-    """The common simple formulas (element symbols with counts, and at most
-    one hydrate or adduct part such as '·5H2O') read without the grammar;
+    """The common formulas (element symbols and bracketed groups with counts,
+    and at most one hydrate or adduct part such as '·5H2O') read without the grammar;
     None for anything else, which the grammar then reads (or refuses). Gives
     exactly the Formula the grammar gives (a property test checks it)."""
-    if len(text) > MAX_LENGTH:
-        return None
+    if len(text) > MAX_LENGTH or ("(" in text and _STOCK_NUMBER.search(text)):
+        return None  # the grammar refuses a Stock number in a formula, with its message
     m = _SIMPLE.fullmatch(text)
     if m is None:
         return None
@@ -779,7 +799,8 @@ def _fast_parse(text: str) -> Formula | None:
     if m.group(2) is None:
         return Formula((Part(first, 1),), 0, text)
     second = _simple_items(m.group(4))
-    if second is None or len(second) < 2:  # a lone atom after '.' may be a decimal count: the grammar decides
+    if second is None or len(second) < 2 or not all(isinstance(i, Atom) for i in second):
+        # a lone atom after '.' may be a decimal count, brackets after a dot are rare: the grammar decides
         return None
     if m.group(2) == "." and m.group(1)[-1].isdigit() and _DECIMAL_COUNT.search(text):
         return None
@@ -813,7 +834,7 @@ def _parse_with_grammar(text: str) -> Formula:
         raise FormulaError("no formula given (the text is empty)", text=text)
     _check_brackets(text, normal, b)
     # a Stock number, with or without a space ('Fe(III)', 'Fe (III)'); '(I)2' is iodine, counted
-    roman = re.search(r"(?<=[A-Za-z])\s*(\((?:I{1,3}|IV|VI{0,3}|IX|X)\))(?!\d)", normal)
+    roman = _STOCK_NUMBER.search(normal)
     if roman:
         raise FormulaError(
             f"'{text}' has a Stock number '{roman.group(1)}' at position {b.pos(roman.start(1))}; a formula"

@@ -99,7 +99,18 @@ def molar_mass(formula: str | Formula) -> MolarMass:
     >>> round(molar_mass("CuSO4·5H2O"), 2)
     249.68
     """
+    if type(formula) is str:
+        found = _BY_TEXT.get(formula)
+        if found is not None:
+            return found
+        value = _molar_mass(as_formula(formula))
+        if len(_BY_TEXT) < 65536:
+            _BY_TEXT[formula] = value
+        return value
     return _molar_mass(as_formula(formula))
+
+
+_BY_TEXT: dict[str, MolarMass] = {}  # repeated texts (a worksheet column, a stock list) skip the parse
 
 
 def composition(formula: str | Formula) -> dict[str, ElementShare]:

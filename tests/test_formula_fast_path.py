@@ -40,6 +40,7 @@ def test_fast_path_agrees_with_the_grammar(text):
     except CellchemError as exc:  # the grammar refuses what the fast path read
         raise AssertionError(f"{text!r}: fast path read {fast}, grammar refused: {exc}") from None
     assert fast == slow and fast.parts == slow.parts and fast.charge == slow.charge
+    assert fast.text() == slow.text()
 
 
 @settings(max_examples=300, deadline=None)
@@ -53,5 +54,7 @@ def test_fast_path_declines_or_agrees_on_any_text(text):
 def test_fast_path_takes_the_common_cases():
     for text in ("NaCl", "CuSO4·5H2O", "MgSO4.7H2O", "C6H12O6", "KMnO4"):
         assert _fast_parse(text) is not None
-    for text in ("Al2(SO4)3", "SO4 2-", "Fe2.5O", "CuSO₄", "co Cl2", "Na2CO3·xH2O"):
+    for text in ("Al2(SO4)3", "K4[Fe(CN)6]·3H2O", "(NH4)2Fe(SO4)2·6H2O"):
+        assert _fast_parse(text) is not None
+    for text in ("SO4 2-", "Fe2.5O", "CuSO₄", "co Cl2", "Na2CO3·xH2O", "Fe(III)Cl3", "Al2(SO4", "()"):
         assert _fast_parse(text) is None
