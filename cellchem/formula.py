@@ -218,6 +218,8 @@ def _sum_counts(items: tuple[Item, ...]) -> dict[str, Number]:
 def _scaled(counts: dict[str, Number], factor: Number) -> dict[str, Number]:
     if factor == 1:
         return counts
+    if type(factor) is int:
+        return {symbol: n * factor if type(n) is int else _norm(n * factor) for symbol, n in counts.items()}
     return {symbol: _norm(n * factor) for symbol, n in counts.items()}
 
 
