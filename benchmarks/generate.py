@@ -17,18 +17,13 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent / "workbooks"))
 
-HEADER = [
-    "Stock no.",
-    "Location",
-    "Item",
-    "Formula",
-    "Mol. wt. (g/mol)",
-    "CAS No.",
-    "Supplier",
-    "Qty",
-    "Unit",
-    "Notes",
-]
+
+def _header() -> list[str]:
+    import make_demos
+
+    return [*make_demos.INVENTORY_HEADER, "Notes"]
+
+
 VARIANTS = {
     "Copper(II) sulfate pentahydrate": ["Copper sulphate crystals", "Cupric sulfate 5-hydrate, AR"],
     "Iron(III) chloride hexahydrate": ["Ferric chloride hexahydrate", "Iron (III) chloride, 6-hydrate"],
@@ -86,7 +81,7 @@ def write(count: int, path: Path, seed: int = 1) -> Path:
 
     wb = Workbook(write_only=True)
     ws = wb.create_sheet("Stock")
-    ws.append(HEADER)
+    ws.append(_header())
     for row in rows(count, seed):
         ws.append(row)
     wb.save(path)

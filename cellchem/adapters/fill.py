@@ -217,20 +217,7 @@ def _fill_workbook(
             }
             if all(_blank(v) for v in values.values()):
                 return []
-            line = fill_line(
-                options.columns,
-                values.get("formula"),
-                values.get("name"),
-                values.get("molar_mass"),
-                values.get("cas"),
-                values.get("concentration"),
-                values.get("unit"),
-                mass_allowance=options.mass_allowance,
-            )
-            if line.filled:
-                report.filled += 1
-            else:
-                report.not_filled[line.verdict.split(":", 1)[0] if line.verdict else "not read"] += 1
+            line = _fill_from_roles(values, options, report, None)
             base = style_of(cells, last_heading)
             out = []
             for (column, index, _new), value in zip(targets, line.values):
@@ -271,6 +258,26 @@ def _fill_workbook(
             )
     report.output = str(dst)
     return report
+
+
+def _fill_from_roles(values: dict, options: FillOptions, report: FillReport, decimal_comma: bool | None):
+    """fill_line over a row's cells by role, counted in the report."""
+    line = fill_line(
+        options.columns,
+        values.get("formula"),
+        values.get("name"),
+        values.get("molar_mass"),
+        values.get("cas"),
+        values.get("concentration"),
+        values.get("unit"),
+        mass_allowance=options.mass_allowance,
+        decimal_comma=decimal_comma,
+    )
+    if line.filled:
+        report.filled += 1
+    else:
+        report.not_filled[line.verdict.split(":", 1)[0] if line.verdict else "not read"] += 1
+    return line
 
 
 def _same_heading(text: str) -> str:
@@ -385,21 +392,7 @@ def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
         ):
             cells = table.rows[index]
             values = {role: (cells[i] if i < len(cells) else None) for role, i in layout.roles.items()}
-            line_result = fill_line(
-                options.columns,
-                values.get("formula"),
-                values.get("name"),
-                values.get("molar_mass"),
-                values.get("cas"),
-                values.get("concentration"),
-                values.get("unit"),
-                mass_allowance=options.mass_allowance,
-                decimal_comma=table.decimal_comma,
-            )
-            if line_result.filled:
-                report.filled += 1
-            else:
-                report.not_filled[line_result.verdict.split(":", 1)[0]] += 1
+            line_result = _fill_from_roles(values, options, report, table.decimal_comma)
             shown = []
             for column, value in zip(options.columns, line_result.values):
                 if value is None:
