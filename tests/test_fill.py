@@ -202,3 +202,39 @@ def test_audit_annotate_adds_a_check_column_and_a_findings_sheet(tmp_path, capsy
     assert stock[0][9] == "cellchem check"
     assert stock[1][9] == "ok"
     assert stock[8][9].startswith("error: the name 'Copper(II) oxide'")
+
+
+def test_damaged_workbooks_are_refused_without_a_traceback(tmp_path, capsys):
+    # bytes flipped in the package or in its XML parts: exit 2 and no output, never an exception
+    import random
+    import zipfile
+
+    src = (ROOT / "workbooks" / "demo-inventory.xlsx").read_bytes()
+    rng = random.Random(11)
+    for i in range(40):
+        if i % 2:
+            data = bytearray(src)
+            for _ in range(rng.randint(1, 20)):
+                data[rng.randrange(len(data))] = rng.randrange(256)
+        else:
+            with zipfile.ZipFile(io.BytesIO(src)) as z:
+                parts = {n: z.read(n) for n in z.namelist()}
+            name = rng.choice(sorted(parts))
+            part = bytearray(parts[name])
+            for _ in range(rng.randint(1, 10)):
+                part[rng.randrange(len(part))] = rng.choice(b'<>"/=&x0 ')
+            parts[name] = bytes(part)
+            buf = io.BytesIO()
+            with zipfile.ZipFile(buf, "w") as z:
+                for n, d in parts.items():
+                    z.writestr(n, d)
+            data = bytearray(buf.getvalue())
+        path = tmp_path / f"damaged-{i}.xlsx"
+        path.write_bytes(bytes(data))
+        out = tmp_path / f"out-{i}.xlsx"
+        code = main(["fill", str(path), "-o", str(out)])
+        assert code in (0, 1, 2)
+        if code == 2:
+            assert not out.exists()
+        assert main(["audit", str(path), "--show", "0"]) in (0, 1, 2)
+    capsys.readouterr()

@@ -29,7 +29,7 @@ from ..audit import _blank
 from ..columns import HEADER_SEARCH_ROWS, Layout, column_letter, find_layout
 from ..errors import CellchemError
 from ..fill import MASS, NUMBER, FillColumn, fill_line
-from .files import UnusableFile
+from .files import UnusableFile, one_line
 from .package import (
     MAX_SHEET_COLUMNS,
     NewCell,
@@ -104,7 +104,21 @@ def fill_file(
             f"the output '{dst.name}' must keep the input's extension '{src.suffix}' (a workbook with macros"
             " stays .xlsm)"
         )
-    return _fill_workbook(src, dst, options, extra_sheet)
+    try:
+        return _fill_workbook(src, dst, options, extra_sheet)
+    except (UnusableFile, CellchemError):
+        raise
+    except MemoryError:
+        raise UnusableFile(
+            f"'{src.name}' needs more memory than this machine has; nothing was written"
+        ) from None
+    except (
+        Exception
+    ) as exc:  # a damaged part found while streaming (bad XML, a bad CRC): refuse, write nothing
+        raise UnusableFile(
+            f"'{src.name}' could not be filled ({type(exc).__name__}: {one_line(exc)}); nothing was written:"
+            " open it in a spreadsheet program and save it again"
+        ) from None
 
 
 # ---------------------------------------------------------------------------
