@@ -31,12 +31,11 @@ from __future__ import annotations
 import math
 import warnings
 from dataclasses import dataclass
-from functools import cache, lru_cache
+from functools import lru_cache
 
 from .errors import CellchemError, ChemistryError
-from .ions import Ion, find_ion
+from .ions import Ion, find_ion, ion_values
 from .solutions import Value, ion_concentrations, ions_of, read_solutes
-from .tables import read_table
 
 # CODATA 2018 (the first three exact since the 2019 SI)
 ELEMENTARY_CHARGE = 1.602176634e-19  # C
@@ -148,16 +147,8 @@ def _constants(t: float, basis: str) -> tuple[float, float]:
     return a, kappa * 1e-10
 
 
-@cache
 def _sizes() -> dict[tuple, float]:
-    sizes = {}
-    for row in read_table("ion_sizes.csv"):
-        from .formula import parse_formula
-        from .ions import counts_key
-
-        f = parse_formula(row["formula"])
-        sizes[(counts_key(f.counts), int(row["charge"]))] = float(row["size"])
-    return sizes
+    return ion_values("ion_sizes.csv", "size")
 
 
 def ion_size(ion: str | Ion) -> float | None:

@@ -17,12 +17,13 @@ from functools import cache
 
 from .cas import read_cas
 from .charge import charge_balance
-from .columns import Layout, column_letter, find_layout
+from .columns import Layout, find_layout
 from .elements import all_elements
 from .errors import CellchemError
 from .formula import Formula, case_readings, parse_formula
 from .ions import catalog, counts_key
 from .mass import molar_mass
+from .memo import Memo, typed
 from .names import name_from_formula, read_name
 from .tables import read_table
 
@@ -518,8 +519,6 @@ CHECKED = "checked"
 NOT_CHECKED = "not checked"
 BLANK = "blank"
 
-_FIELD_ROLE = {"formula": "formula", "molar_mass": "molar_mass", "name": "name", "cas": "cas"}
-
 
 @dataclass(frozen=True)
 class RowResult:
@@ -547,33 +546,13 @@ class RowResult:
 
 def _check_line_cached(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
     """check_line, remembered for repeated lines (stock lists repeat compounds)."""
-    key = (
-        type(formula),
-        formula,
-        type(mass),
-        mass,
-        type(name),
-        name,
-        type(cas),
-        cas,
-        allowance,
-        decimal_comma,
+    return _LINES.get(
+        (typed(formula, mass, name, cas), allowance, decimal_comma),
+        lambda: check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma),
     )
-    try:
-        return _LINE_CACHE[key]
-    except KeyError:
-        pass
-    except TypeError:  # an unhashable cell value
-        return check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma)
-    result = check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma)
-    if len(_LINE_CACHE) >= _LINE_CACHE_SIZE:
-        _LINE_CACHE.pop(next(iter(_LINE_CACHE)))
-    _LINE_CACHE[key] = result
-    return result
 
 
-_LINE_CACHE: dict[tuple, LineResult] = {}
-_LINE_CACHE_SIZE = 50_000
+_LINES: Memo[LineResult] = Memo(50_000)
 
 
 def _cell(cells: Sequence[object], index: int | None) -> object:
@@ -595,7 +574,7 @@ def audit_row(
     values = {role: _cell(cells, roles.get(role)) for role in ("name", "formula", "molar_mass", "cas")}
     if all(_blank(v) for v in cells):
         return RowResult(row, BLANK, "", ())
-    letters = {r: column_letter(i) for r, i in roles.items()}
+    letters = layout.letters
     if all(_blank(values[r]) for r in values):
         return RowResult(row, NOT_CHECKED, "no name, formula, molar mass or CAS RN", (), letters)
     result = _check_line_cached(

@@ -15,7 +15,7 @@ import re
 import unicodedata
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from functools import cache
+from functools import cache, cached_property
 
 from .errors import CellchemError
 from .tables import read_table
@@ -124,6 +124,11 @@ class Layout:
 
     def letter(self, role: str) -> str:
         return column_letter(self.roles[role])
+
+    @cached_property
+    def letters(self) -> dict[str, str]:
+        """role -> column letter, worked out once per table."""
+        return {role: column_letter(i) for role, i in self.roles.items()}
 
 
 def _text(cell: object) -> str:

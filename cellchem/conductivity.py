@@ -36,7 +36,6 @@ from __future__ import annotations
 
 import math
 import warnings
-from functools import cache
 
 from .activity import (
     AVOGADRO,
@@ -48,10 +47,8 @@ from .activity import (
     water_permittivity,
 )
 from .errors import CellchemError, ChemistryError
-from .formula import parse_formula
-from .ions import Ion, counts_key
+from .ions import Ion, ion_values
 from .solutions import Value, ion_concentrations, read_solutes
-from .tables import read_table
 
 WATER_VISCOSITY_25 = 0.8900e-3  # Pa s, IAPWS 2008 at 25 C and 0.1 MPa (from memory)
 TRUSTED_TO = 0.02  # mol/L
@@ -61,13 +58,8 @@ DEFAULT_ALPHA = 0.019  # per K, common practice
 DEFAULT_SIZE = 3.0  # angstrom, for ions without a Kielland size
 
 
-@cache
 def _limiting() -> dict[tuple, float]:
-    table = {}
-    for row in read_table("ionic_conductivities.csv"):
-        f = parse_formula(row["formula"])
-        table[(counts_key(f.counts), int(row["charge"]))] = float(row["lambda"])
-    return table
+    return ion_values("ionic_conductivities.csv", "lambda")
 
 
 def limiting_conductivity(ion: Ion) -> float | None:

@@ -17,6 +17,7 @@ from .audit import ERROR, _blank, _check_line_cached
 from .errors import CellchemError
 from .formula import Formula, parse_formula
 from .mass import mass_fraction, molar_mass
+from .memo import Memo, typed
 from .names import name_from_formula, read_name
 from .solutions import ionic_strength, ions_of
 
@@ -162,21 +163,13 @@ def fill_line(
     False
     """
     args = (formula, name, molar_mass_cell, cas, concentration, unit)
-    key = (columns, tuple((type(a), a) for a in args), mass_allowance, decimal_comma)
-    try:
-        return _FILL_CACHE[key]
-    except KeyError:
-        pass
-    except TypeError:  # an unhashable cell value
-        return _fill_line(columns, *args, mass_allowance, decimal_comma)
-    line = _fill_line(columns, *args, mass_allowance, decimal_comma)
-    if len(_FILL_CACHE) >= 50_000:
-        _FILL_CACHE.pop(next(iter(_FILL_CACHE)))
-    _FILL_CACHE[key] = line
-    return line
+    return _LINES.get(
+        (columns, typed(*args), mass_allowance, decimal_comma),
+        lambda: _fill_line(columns, *args, mass_allowance, decimal_comma),
+    )
 
 
-_FILL_CACHE: dict[tuple, FillLine] = {}
+_LINES: Memo[FillLine] = Memo(50_000)
 
 
 def _fill_line(

@@ -163,6 +163,18 @@ def ions_in(counts: dict[str, Number]) -> tuple[tuple[Ion, int], ...]:
     return tuple(found)
 
 
+@cache
+def ion_values(filename: str, column: str) -> dict[tuple[CountsKey, int], float]:
+    """A data table of one number per ion (columns ``formula``, ``charge`` and
+    ``column``), keyed by the ion's element counts and charge as ``Ion.key``
+    and ``Ion.charge`` give them."""
+    table = {}
+    for row in read_table(filename):
+        f = parse_formula(row["formula"])
+        table[(counts_key(f.counts), int(row["charge"]))] = float(row[column])
+    return table
+
+
 def catalog_name(counts: dict[str, Number], charge: int) -> str | None:
     """The name of the catalog ion with these element counts and charge, if any."""
     ion = _by_key().get((counts_key(counts), charge))

@@ -471,12 +471,3 @@ def ionic_strength(solutes, unit: str = "mol/L", weak_electrolytes: str = "refus
     total = 0.5 * sum(c * ion.charge**2 for ion, c in conc.items())
     details = tuple((ion.label, ion.charge, c) for ion, c in conc.items())
     return Value(float(f"{total:.15g}"), basis, notes, details)
-
-
-def find_solute_ion(text: str | Ion) -> Ion:
-    """An ion from an Ion, a label (``'Ca2+'``) or a name (``'calcium'``)."""
-    if isinstance(text, Ion):
-        return text
-    from .ions import find_ion
-
-    return find_ion(text)

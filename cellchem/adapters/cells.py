@@ -41,14 +41,6 @@ _FULL: OrderedDict[str, str] = OrderedDict()
 _FULL_SIZE = 10_000
 
 
-class _Refusal(Exception):
-    """A cell whose input is itself an error value: passed through."""
-
-    def __init__(self, value: str) -> None:
-        super().__init__(value)
-        self.value = value
-
-
 def error_value(v: object) -> str | None:
     """The error text of an Excel error value, or None."""
     if isinstance(v, str) and v in EXCEL_ERRORS:
@@ -160,11 +152,13 @@ def cellwise(
         )
     any_range = any(was for _g, was in grids)
     rows, cols = shapes.pop() if shapes else (1, 1)
+    # a single cell applies to every cell of the result; decided once, not per cell
+    single = [(len(g), len(g[0])) == (1, 1) for g, _was in grids]
     result: list[list[object]] = []
     for i in range(rows):
         line: list[object] = []
         for j in range(cols):
-            values = [g[i][j] if (len(g), len(g[0])) != (1, 1) else g[0][0] for g, _was in grids]
+            values = [g[0][0] if one else g[i][j] for (g, _was), one in zip(grids, single)]
             line.append(_one(fn, values, blank_when))
         result.append(line)
     return result if any_range else result[0][0]
