@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import cache
+from functools import cache, lru_cache
 
 from .errors import CellchemError, ChemistryError
 from .formula import Formula, Number
@@ -77,7 +77,21 @@ def cautions_for(formula: str | Formula) -> tuple[Caution, ...]:
     >>> [c.hazard for c in cautions_for("K2Cr2O7")]
     ['toxic']
     """
-    f = _read_solute(formula)
+    return _cautions(_read_solute(formula))
+
+
+@cache
+def _caution_ranks() -> dict[Caution, int]:
+    """Each caution's rank: formula rows before ion, behaviour and element rows."""
+    order = {"formula": 0, "ion": 1, "behaviour": 2, "element": 3}
+    ranks: dict[Caution, int] = {}
+    for kind, _match, c in _caution_rows():
+        ranks[c] = min(ranks.get(c, 9), order[kind])
+    return ranks
+
+
+@lru_cache(maxsize=4096)
+def _cautions(f: Formula) -> tuple[Caution, ...]:
     key = counts_key(f.anhydrous().counts)
     try:
         d: Dissociation | None = ions_of(f)
@@ -95,12 +109,8 @@ def cautions_for(formula: str | Formula) -> tuple[Caution, ...]:
         )
         if hit and c not in found:
             found.append(c)
-    order = {"formula": 0, "ion": 1, "behaviour": 2, "element": 3}
-    ranked = sorted(
-        found,
-        key=lambda c: min(order[k] for k, m, cc in _caution_rows() if cc == c),
-    )
-    return tuple(ranked)
+    ranks = _caution_ranks()
+    return tuple(sorted(found, key=ranks.__getitem__))
 
 
 def caution_text(formula: str | Formula) -> tuple[str, ...]:
