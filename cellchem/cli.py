@@ -499,7 +499,37 @@ def build_parser() -> argparse.ArgumentParser:
         "--mass-allowance", type=float, metavar="G_PER_MOL", help="as for audit, e.g. --mass-allowance 0.05"
     )
     fill.set_defaults(run=_cmd_fill)
+
+    calc = sub.add_parser(
+        "calc-extension",
+        help="build the LibreOffice extension that adds the CC_* worksheet functions to Calc",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+        description=(
+            "Build cellchem.oxt, a LibreOffice extension with the CC_* worksheet functions as a Calc\n"
+            "add-in. Needs LibreOffice and its SDK's unoidl-write (Debian: libreoffice-calc-nogui,\n"
+            "libreoffice-dev). Install the result with: unopkg add cellchem.oxt\n\n"
+            "Example: cellchem calc-extension -o cellchem.oxt"
+        ),
+    )
+    calc.add_argument("-o", "--output", metavar="PATH", default="cellchem.oxt", help="default cellchem.oxt")
+    calc.add_argument("--office", metavar="DIR", help="LibreOffice's directory (default: found from soffice)")
+    calc.add_argument(
+        "--sdk", metavar="DIR", help="the SDK's directory or unoidl-write itself (default: found)"
+    )
+    calc.set_defaults(run=_cmd_calc_extension)
     return parser
+
+
+def _cmd_calc_extension(args: argparse.Namespace) -> int:
+    from .adapters.calc.build import BuildError, build
+
+    try:
+        path = build(args.output, office=args.office, sdk=args.sdk)
+    except BuildError as exc:
+        print(f"cellchem: {exc}", file=sys.stderr)
+        return EXIT_USAGE
+    print(f"wrote {path}; install it with: unopkg add {path}")
+    return EXIT_CLEAN
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -12,17 +12,15 @@ import re
 from pathlib import Path
 
 import pytest
+from demo_values import check_demo_values
 
 from cellchem import (
-    activity_coefficient,
     conductivity,
     convert_concentration,
-    formula_from_name,
     ionic_strength,
     mass_for_solution,
     mass_fraction,
     molar_mass,
-    name_from_formula,
 )
 from cellchem.adapters import sheet_functions as sf
 from cellchem.adapters import xlwings_udfs
@@ -174,28 +172,7 @@ def _one(values, ref):
 
 
 def test_demo_cells_against_the_core(evaluated):
-    v = evaluated
-    assert _one(v, "B11") == formula_from_name("Copper(II) sulfate pentahydrate")
-    assert _one(v, "B12") == name_from_formula("NaCl")
-    assert _one(v, "B13") == name_from_formula("FeCl3", legacy=True)
-    assert _one(v, "B14") == "Al2(SO4)3"
-    assert _one(v, "B15") == pytest.approx(float(molar_mass("CuSO4·5H2O")))
-    assert _one(v, "B16") == pytest.approx(mass_fraction("CuSO4·5H2O", "Cu"))
-    assert _one(v, "B17") == -2
-    assert _one(v, "B18") == 7
-    assert _one(v, "B19") is False
-    assert _one(v, "B20").startswith("error: the name 'Sodium chloride' reads as NaCl")
-    assert _one(v, "B21") is True
-    assert _one(v, "B22") == pytest.approx(float(ionic_strength([("MgCl2", 0.1)])))
-    assert _one(v, "B23") == pytest.approx(float(activity_coefficient("Ca2+", 0.01, "extended")))
-    assert _one(v, "B24") == pytest.approx(float(conductivity([("KCl", 0.01)])))
-    assert _one(v, "B25") == pytest.approx(
-        mass_for_solution("CuSO4", 0.1, "250 mL", shelf_form="CuSO4·5H2O").mass
-    )
-    assert _one(v, "B26") == pytest.approx(
-        float(convert_concentration(37, "% w/w", "mol/L", "HCl", density=1.18))
-    )
-    assert "unknown element symbol 'Xx'" in _one(v, "B27")
+    check_demo_values(lambda ref: _one(evaluated, ref))
 
 
 def test_demo_ranges_spill(evaluated):

@@ -550,7 +550,7 @@ def functions_workbook(path: Path) -> None:
     for k, (ion, value) in enumerate([("Ca2+", 2.0), ("Mg2+", 1.0), ("HCO3-", 2.5), ("Cl-", 0.45)]):
         ws.cell(row=row + 1 + k, column=1, value=ion)
         ws.cell(row=row + 1 + k, column=2, value=value)
-    ws.cell(row=row, column=2).value = ArrayFormula(
+    ws.cell(row=row, column=3).value = ArrayFormula(
         f"C{row}:F{row}", f'=CC_IONBALANCE(A{row + 1}:A{row + 4},B{row + 1}:B{row + 4},"meq/L")'
     )
     ws.column_dimensions["A"].width = 46
@@ -558,6 +558,100 @@ def functions_workbook(path: Path) -> None:
     ws.column_dimensions["C"].width = 50
     wb.save(path)
     _fixed_zip(path)
+
+
+# LibreOffice Calc reads add-in functions in OpenDocument files by their
+# programmatic names; LibreOffice 7.4 does not map the CC_* names in .xlsx
+# files to the add-in (README, LibreOffice Calc), so the demo has an .ods twin.
+CALC_PREFIX = "ORG.CELLCHEM.SHEET.FUNCTIONS."
+
+
+def _odf_formula(formula: str) -> str:
+    """An Excel-style formula (=CC_X(B5,"a")) in OpenFormula (of:=...CCX([.B5];"a"))."""
+    import re
+
+    out = []
+    for token in re.findall(r'"[^"]*"|CC_[A-Z]+|[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?|.', formula.lstrip("=")):
+        if token.startswith('"'):
+            out.append(token)
+        elif token.startswith("CC_"):
+            out.append(CALC_PREFIX + "CC" + token[3:])
+        elif re.fullmatch(r"[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?", token):
+            out.append("[" + ":".join("." + part for part in token.split(":")) + "]")
+        elif token == ",":
+            out.append(";")
+        else:
+            out.append(token)
+    return "of:=" + "".join(out)
+
+
+def functions_ods(xlsx: Path, path: Path) -> None:
+    """The functions demo as an OpenDocument spreadsheet for LibreOffice Calc:
+    the same cells as the .xlsx (read back from it), formulas in OpenFormula."""
+    import zipfile
+    from xml.sax.saxutils import escape, quoteattr
+
+    from openpyxl import load_workbook
+    from openpyxl.utils import range_boundaries
+    from openpyxl.worksheet.formula import ArrayFormula
+
+    ws = load_workbook(xlsx).active
+    rows = []
+    for r in range(1, ws.max_row + 1):
+        cells = []
+        for c in range(1, ws.max_column + 1):
+            v = ws.cell(row=r, column=c).value
+            if isinstance(v, ArrayFormula):
+                c1, r1, c2, r2 = range_boundaries(v.ref)
+                span = (
+                    f' table:number-matrix-columns-spanned="{c2 - c1 + 1}"'
+                    f' table:number-matrix-rows-spanned="{r2 - r1 + 1}"'
+                )
+                cells.append(f"<table:table-cell table:formula={quoteattr(_odf_formula(v.text))}{span}/>")
+            elif isinstance(v, str) and v.startswith("=") and ws.cell(row=r, column=c).data_type == "f":
+                cells.append(f"<table:table-cell table:formula={quoteattr(_odf_formula(v))}/>")
+            elif isinstance(v, int | float):
+                cells.append(
+                    f'<table:table-cell office:value-type="float" office:value="{v!r}">'
+                    f"<text:p>{v}</text:p></table:table-cell>"
+                )
+            elif v is not None:
+                cells.append(
+                    '<table:table-cell office:value-type="string">'
+                    f"<text:p>{escape(str(v))}</text:p></table:table-cell>"
+                )
+            else:
+                cells.append("<table:table-cell/>")
+        rows.append("<table:table-row>" + "".join(cells) + "</table:table-row>")
+    ns = (
+        'xmlns:office="urn:oasis:names:tc:opendocument:xmlns:office:1.0" '
+        'xmlns:table="urn:oasis:names:tc:opendocument:xmlns:table:1.0" '
+        'xmlns:text="urn:oasis:names:tc:opendocument:xmlns:text:1.0" '
+        'xmlns:of="urn:oasis:names:tc:opendocument:xmlns:of:1.2" office:version="1.3"'
+    )
+    content = (
+        f'<?xml version="1.0" encoding="UTF-8"?>\n<office:document-content {ns}>'
+        "<office:body><office:spreadsheet>"
+        f'<table:table table:name="{ws.title}">' + "".join(rows) + "</table:table>"
+        "</office:spreadsheet></office:body></office:document-content>\n"
+    )
+    manifest = (
+        '<?xml version="1.0" encoding="UTF-8"?>\n'
+        '<manifest:manifest xmlns:manifest="urn:oasis:names:tc:opendocument:xmlns:manifest:1.0"'
+        ' manifest:version="1.3"><manifest:file-entry manifest:full-path="/"'
+        ' manifest:media-type="application/vnd.oasis.opendocument.spreadsheet"/>'
+        '<manifest:file-entry manifest:full-path="content.xml" manifest:media-type="text/xml"/>'
+        "</manifest:manifest>\n"
+    )
+    with zipfile.ZipFile(path, "w") as z:
+        for name, data, method in (
+            ("mimetype", "application/vnd.oasis.opendocument.spreadsheet", zipfile.ZIP_STORED),
+            ("content.xml", content, zipfile.ZIP_DEFLATED),
+            ("META-INF/manifest.xml", manifest, zipfile.ZIP_DEFLATED),
+        ):
+            info = zipfile.ZipInfo(name, date_time=(2026, 1, 5, 9, 0, 0))
+            info.compress_type = method
+            z.writestr(info, data)
 
 
 def build(target: Path = HERE) -> list[Path]:
@@ -571,7 +665,9 @@ def build(target: Path = HERE) -> list[Path]:
     supplier.write_bytes(supplier_table_csv())
     functions = target / "demo-worksheet-functions.xlsx"
     functions_workbook(functions)
-    return [path, inventory, supplier, functions]
+    calc = target / "demo-worksheet-functions.ods"
+    functions_ods(functions, calc)
+    return [path, inventory, supplier, functions, calc]
 
 
 if __name__ == "__main__":

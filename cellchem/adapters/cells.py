@@ -10,6 +10,12 @@ shape (it spills); empty in gives empty out; numbers stay numbers; an error
 value in gives the same error value out; bad chemistry input never raises:
 the cell shows a short message that starts with ``MARK`` (so a filter on
 that text finds every refusal), and ``full_message`` gives the whole of it.
+
+LibreOffice Calc hands values over differently (``from_calc``, ``to_calc``):
+a range is a tuple of row tuples with ``''`` for empty cells, a reference to
+one empty cell arrives as ``0.0``, exactly as a real zero does, an omitted
+argument as ``None``; a result must be rows of cells, with no empty value
+and no boolean. Each argument says what a lone 0 means (``ZERO_*``).
 """
 
 from __future__ import annotations
@@ -98,6 +104,11 @@ def number(v: object, what: str) -> float:
     """A number argument: floats and ints; text that is a number."""
     if isinstance(v, bool):
         raise CellchemError(f"{what}: expected a number, read {v!r}")
+    if v is CALC_ZERO:
+        raise CellchemError(
+            f"{what}: read 0, which is also what LibreOffice passes for an empty cell; "
+            'write the zero as text ("0"), or leave the argument out for the default'
+        )
     if isinstance(v, int | float):
         if not math.isfinite(v):
             raise CellchemError(f"{what}: {v!r} is not a finite number")
@@ -201,3 +212,67 @@ def aggregate(fn: Callable[..., object], *args: object) -> object:
         return fn(*args)
     except CellchemError as exc:
         return refusal(exc)
+
+
+# What a lone 0.0 from LibreOffice Calc means for an argument: Calc passes a
+# reference to one empty cell as 0.0, the same value as a real zero.
+ZERO_IS_EMPTY = "empty"  # text, or a quantity that is never 0 (molar mass, volume): read as an empty cell
+ZERO_IS_ZERO = "zero"  # a value where 0 is common and harmless (a concentration to convert)
+ZERO_IS_AMBIGUOUS = "ambiguous"  # 0 and empty mean different things (0 degrees C vs the default 25)
+
+
+class _CalcZero:
+    """A lone 0 from Calc where 0 and an empty cell mean different things:
+    not blank, and refused where a number is read (``number``)."""
+
+    def __repr__(self) -> str:
+        return "0"
+
+
+CALC_ZERO = _CalcZero()
+
+
+def from_calc(v: object, zero: str = ZERO_IS_EMPTY) -> object:
+    """A value as LibreOffice Calc passes it, in the shape the worksheet
+    functions take (the xlwings shape): ranges as lists of rows with None
+    for empty cells, a lone empty text or an empty-cell 0.0 as None.
+
+    >>> from_calc(((1.0, ''), ('NaCl', 2.0)))
+    [[1.0, None], ['NaCl', 2.0]]
+    >>> from_calc(0.0) is None, from_calc(0.0, ZERO_IS_ZERO), from_calc(0.0, ZERO_IS_AMBIGUOUS)
+    (True, 0.0, 0)
+    """
+    if isinstance(v, tuple | list):
+        return [
+            [None if x == "" else x for x in (row if isinstance(row, tuple | list) else (row,))] for row in v
+        ]
+    if v == "" or v is None:
+        return None
+    if isinstance(v, float) and v == 0.0:
+        if zero == ZERO_IS_EMPTY:
+            return None
+        if zero == ZERO_IS_AMBIGUOUS:
+            return CALC_ZERO
+    return v
+
+
+def to_calc(result: object) -> tuple[tuple[object, ...], ...]:
+    """A result as LibreOffice Calc takes it: always rows of cells (one cell
+    shows as a plain value); empty as '', TRUE and FALSE as 1 and 0 (Calc
+    has no boolean value; a boolean number format shows them as words).
+
+    >>> to_calc(True), to_calc([[1.5, None], ['x', False]])
+    (((1.0,),), ((1.5, ''), ('x', 0.0)))
+    """
+    rows, _ = as_grid(result)
+    return tuple(tuple(_calc_cell(x) for x in row) for row in rows)
+
+
+def _calc_cell(v: object) -> object:
+    if v is None:
+        return ""
+    if isinstance(v, bool):
+        return 1.0 if v else 0.0
+    if isinstance(v, int | float):
+        return float(v)
+    return v if isinstance(v, str) else str(v)

@@ -35,7 +35,20 @@ from .. import (
 )
 from ..audit import ERROR, NOTE, WARNING, check_line
 from ..errors import CellchemError
-from .cells import aggregate, blank, cellwise, flat, full_message, number, quantity, refusal, text
+from .cells import (
+    ZERO_IS_AMBIGUOUS,
+    ZERO_IS_EMPTY,
+    ZERO_IS_ZERO,
+    aggregate,
+    blank,
+    cellwise,
+    flat,
+    full_message,
+    number,
+    quantity,
+    refusal,
+    text,
+)
 
 
 @dataclass(frozen=True)
@@ -43,6 +56,7 @@ class Argument:
     name: str
     description: str
     optional: bool = False
+    zero: str = ZERO_IS_EMPTY  # what a lone 0 from LibreOffice Calc means (cells.from_calc)
 
 
 @dataclass(frozen=True)
@@ -268,7 +282,11 @@ def _pairs(solutes, concentrations):
     "Ionic strength of a solution of strong electrolytes, in mol/L.",
     [
         A("solutes", "a range of formulas, e.g. NaCl, K2SO4"),
-        A("concentrations", "their concentrations: numbers in mol/L or text with a unit, e.g. 10 mmol/L"),
+        A(
+            "concentrations",
+            "their concentrations: numbers in mol/L or text with a unit, e.g. 10 mmol/L",
+            zero=ZERO_IS_ZERO,
+        ),
     ],
     "number, mol/L",
     '=CC_IONICSTRENGTH("MgCl2",0.1) gives 0.3',
@@ -283,9 +301,9 @@ def cc_ionicstrength(solutes=None, concentrations=None):
     "Activity coefficient of an ion (Davies, extended Debye-Huckel or limiting law).",
     [
         A("ion", "the ion, e.g. Ca2+"),
-        A("ionic_strength", "the ionic strength in mol/L"),
+        A("ionic_strength", "the ionic strength in mol/L", zero=ZERO_IS_AMBIGUOUS),
         A("model", "davies (default), extended or limiting", True),
-        A("temperature_c", "temperature in degrees C, 0 to 100 (default 25)", True),
+        A("temperature_c", "temperature in degrees C, 0 to 100 (default 25)", True, ZERO_IS_AMBIGUOUS),
     ],
     "number, 0 to 1",
     '=CC_ACTIVITY("Ca2+",0.01,"extended") gives 0.675',
@@ -309,8 +327,8 @@ def cc_activity(ion=None, ionic_strength=None, model=None, temperature_c=None):
     "Estimated conductivity of a dilute solution, in uS/cm.",
     [
         A("solutes", "a range of formulas, e.g. KCl"),
-        A("concentrations", "their concentrations: numbers in mol/L or text with a unit"),
-        A("temperature_c", "15 to 35 degrees C (default 25, the meter's reference)", True),
+        A("concentrations", "their concentrations: numbers in mol/L or text with a unit", zero=ZERO_IS_ZERO),
+        A("temperature_c", "15 to 35 degrees C (default 25, the meter's reference)", True, ZERO_IS_AMBIGUOUS),
     ],
     "number, uS/cm",
     '=CC_CONDUCTIVITY("KCl",0.01) gives 1411',
@@ -354,7 +372,7 @@ def cc_grams(formula=None, concentration=None, volume=None, purity=None, shelf_f
     "CC_CONVERT",
     "Convert a concentration between units (mol/L, mmol/L, g/L, mg/L, % w/v, ppm, meq/L, % w/w ...).",
     [
-        A("value", "the concentration"),
+        A("value", "the concentration", zero=ZERO_IS_ZERO),
         A("from_unit", "its unit, e.g. % w/w"),
         A("to_unit", "the unit wanted, e.g. mol/L"),
         A("formula", "the solute, e.g. HCl"),
@@ -383,7 +401,7 @@ def cc_convert(value=None, from_unit=None, to_unit=None, formula=None, density=N
     "Cation-anion balance of a water analysis, spilled as cations, anions (meq/L), error %, acceptable.",
     [
         A("ions", "a range of ions, e.g. Ca2+, HCO3-"),
-        A("concentrations", "their concentrations"),
+        A("concentrations", "their concentrations", zero=ZERO_IS_ZERO),
         A("unit", "mg/L, mmol/L or meq/L (default meq/L)", True),
     ],
     "a row: cations meq/L, anions meq/L, error %, TRUE/FALSE (Standard Methods 1030 E)",

@@ -1,0 +1,111 @@
+"""The cellchem Calc add-in: the CC_* worksheet functions as UNO methods.
+
+This file is copied into the extension as ``cellchem_calc.py`` and runs in
+LibreOffice's own Python. Calc calls one method per function
+(``ccMolarmass`` for ``CC_MOLARMASS``, see ``method_name``); each method
+converts what Calc passes (``cells.from_calc``), calls the same function the
+Excel layer calls (``sheet_functions``) and converts the answer back
+(``cells.to_calc``). A failure shows as marked text in the cell, never as an
+error dialog.
+
+The bundled core is put first on ``sys.path`` and checked to be the one
+imported, so another cellchem or pint installed where LibreOffice's Python
+looks cannot answer in its place. Without ``uno`` (outside LibreOffice) the
+module only offers the naming helpers the builder uses.
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+
+IMPLEMENTATION = "org.cellchem.sheet.Functions"
+SERVICE = "com.sun.star.sheet.AddIn"
+INTERFACE = "org.cellchem.sheet.XCellchemFunctions"
+MINIMUM_PYTHON = (3, 11)
+MARK = "#cellchem: "  # the same mark as cells.MARK; used before the bundle loads
+
+
+def method_name(function: str) -> str:
+    """The UNO method behind a worksheet function: CC_MOLARMASS -> ccMolarmass."""
+    return "cc" + function.removeprefix("CC_").capitalize()
+
+
+def parameter_name(argument: str) -> str:
+    """An argument's UNO parameter name (IDL names have no underscores): molar_mass -> molarMass."""
+    head, *rest = argument.split("_")
+    return head + "".join(part.capitalize() for part in rest)
+
+
+def _load_bundle(here: str) -> tuple[object, object, str | None]:
+    """(sheet_functions, cells, problem): the bundled modules, or why they cannot be used."""
+    if sys.version_info < MINIMUM_PYTHON:
+        found = ".".join(map(str, sys.version_info[:3]))
+        return None, None, f"cellchem needs Python 3.11 or newer; this LibreOffice runs Python {found}"
+    bundle = os.path.join(here, "pythonpath")
+    if bundle in sys.path:
+        sys.path.remove(bundle)
+    sys.path.insert(0, bundle)
+    try:
+        from cellchem.adapters import cells, sheet_functions
+    except Exception as exc:  # a broken or shadowed bundle: say so in the cell
+        return None, None, f"cellchem could not be loaded from {bundle}: {exc}"
+    import pint
+    import pyparsing
+
+    import cellchem
+
+    for module in (cellchem, pint, pyparsing):
+        where = os.path.abspath(getattr(module, "__file__", "") or "")
+        if not where.startswith(os.path.abspath(bundle) + os.sep):
+            return None, None, f"{module.__name__} was loaded from {where}, not from the extension's {bundle}"
+    return sheet_functions, cells, None
+
+
+def _make_class(sheet_functions, cells, problem: str | None):
+    import unohelper
+    from com.sun.star.lang import XServiceInfo
+    from org.cellchem.sheet import XCellchemFunctions
+
+    def method(spec):
+        zeros = tuple(a.zero for a in spec.arguments)
+        implementation = spec.implementation
+
+        def call(self, *values):
+            if problem is not None:
+                return ((MARK + problem,),)
+            try:
+                args = [cells.from_calc(v, z) for v, z in zip(values, zeros)]
+                return cells.to_calc(implementation(*args))
+            except Exception as exc:  # a fault in cellchem itself: a marked cell, not a dialog
+                return cells.to_calc(cells.refusal(exc))
+
+        call.__name__ = method_name(spec.name)
+        call.__doc__ = spec.summary
+        return call
+
+    namespace = {
+        "__init__": lambda self, ctx=None: setattr(self, "ctx", ctx),
+        "getImplementationName": lambda self: IMPLEMENTATION,
+        "supportsService": lambda self, name: name == SERVICE,
+        "getSupportedServiceNames": lambda self: (SERVICE,),
+    }
+    functions = sheet_functions.FUNCTIONS if sheet_functions is not None else {}
+    for spec in functions.values():
+        namespace[method_name(spec.name)] = method(spec)
+    if problem is not None:  # every method still answers, with the reason
+        namespace["__getattr__"] = lambda self, name: lambda *a: ((MARK + problem,),)
+    return type("CellchemFunctions", (unohelper.Base, XCellchemFunctions, XServiceInfo), namespace)
+
+
+try:
+    import uno  # noqa: F401  (present only inside LibreOffice's Python)
+    import unohelper
+except ImportError:  # outside LibreOffice: the naming helpers only
+    g_ImplementationHelper = None
+else:
+    _sheet_functions, _cells, _problem = _load_bundle(os.path.dirname(os.path.abspath(__file__)))
+    g_ImplementationHelper = unohelper.ImplementationHelper()
+    g_ImplementationHelper.addImplementation(
+        _make_class(_sheet_functions, _cells, _problem), IMPLEMENTATION, (SERVICE,)
+    )

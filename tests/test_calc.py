@@ -1,0 +1,341 @@
+"""The CC_* worksheet functions in LibreOffice Calc, headless.
+
+Builds the extension (``cellchem calc-extension``), installs it into a
+private LibreOffice profile with ``unopkg``, starts ``soffice --headless``
+and drives it with ``tests/calc/driver.py`` (run by a Python that has
+LibreOffice's ``uno``). Every function is called in Calc, on single cells
+and on ranges, and each result is compared with what the same function
+gives through the Excel layer's calling convention (the core's answer,
+converted to what Calc shows: TRUE/FALSE as 1/0, empty as empty text).
+
+Without LibreOffice, its SDK and python3-uno these tests are skipped, unless
+CELLCHEM_CALC_TESTS=required (CI sets it), when they fail instead.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import shutil
+import subprocess
+import sys
+import uuid
+import zipfile
+from pathlib import Path
+
+import pytest
+
+from cellchem.adapters import sheet_functions as sf
+from cellchem.adapters.calc import build as oxt
+from cellchem.adapters.calc.component import method_name, parameter_name
+from cellchem.adapters.cells import to_calc
+
+ROOT = Path(__file__).resolve().parent.parent
+DRIVER = ROOT / "tests" / "calc" / "driver.py"
+REQUIRED = os.environ.get("CELLCHEM_CALC_TESTS") == "required"
+
+
+# -- without LibreOffice: the generated parts ----------------------------------------------------
+
+
+def test_committed_idl_is_generated_from_the_functions():
+    assert oxt.IDL.read_text(encoding="utf-8") == oxt.idl_source()
+
+
+def test_configuration_names_every_function_and_argument():
+    import defusedxml.ElementTree as ET
+
+    root = ET.fromstring(oxt.addin_configuration().encode())
+    oor = "{http://openoffice.org/2001/registry}name"
+    functions = root.find("node").find("node").find("node")
+    found = {n.get(oor): n for n in functions.findall("node")}
+    assert set(found) == {method_name(n) for n in sf.FUNCTIONS}
+    for name, spec in sf.FUNCTIONS.items():
+        node = found[method_name(name)]
+        props = {p.get(oor): p.find("value").text for p in node.findall("prop")}
+        assert props["DisplayName"] == name and props["CompatibilityName"] == name
+        assert props["Description"] == spec.summary
+        params = node.find("node").findall("node")
+        assert [p.get(oor) for p in params] == [parameter_name(a.name) for a in spec.arguments]
+
+
+def test_names_for_uno():
+    assert method_name("CC_MOLARMASS") == "ccMolarmass"
+    assert parameter_name("shelf_form") == "shelfForm" and parameter_name("formula") == "formula"
+
+
+# -- LibreOffice itself -----------------------------------------------------------------------
+
+
+def _uno_python() -> str | None:
+    for candidate in (
+        os.environ.get("CELLCHEM_UNO_PYTHON"),
+        "/usr/bin/python3",
+        "/usr/lib/libreoffice/program/python",
+    ):
+        if candidate and Path(candidate).exists():
+            ok = subprocess.run([candidate, "-c", "import uno"], capture_output=True, timeout=60)
+            if ok.returncode == 0:
+                return candidate
+    return None
+
+
+def _missing() -> str | None:
+    if not (shutil.which("soffice") and shutil.which("unopkg")):
+        return "LibreOffice (soffice, unopkg) is not installed"
+    try:
+        oxt.find_idl_compiler(oxt.find_office())
+    except oxt.BuildError as exc:
+        return str(exc)
+    if _uno_python() is None:
+        return "no Python with LibreOffice's uno module (Debian: python3-uno)"
+    return None
+
+
+class Calc:
+    def __init__(self, work: Path):
+        self.work = work
+        self.extension = oxt.build(work / "cellchem.oxt")
+        profile = f"-env:UserInstallation={(work / 'user').as_uri()}"
+        shared = f"-env:UNO_SHARED_PACKAGES_CACHE={(work / 'shared').as_uri()}"
+        run = subprocess.run(
+            ["unopkg", "add", "--shared", profile, shared, str(self.extension)],
+            capture_output=True,
+            text=True,
+            timeout=300,
+        )
+        assert run.returncode == 0, run.stderr + run.stdout
+        self.pipe = f"cellchem-{uuid.uuid4().hex[:12]}"
+        self.office = subprocess.Popen(
+            [
+                "soffice",
+                "--headless",
+                "--norestore",
+                "--nologo",
+                "--nodefault",
+                profile,
+                shared,
+                f"--accept=pipe,name={self.pipe};urp;",
+            ],
+            stdout=subprocess.DEVNULL,
+            stderr=subprocess.DEVNULL,
+            start_new_session=True,
+        )
+        self.python = _uno_python()
+
+    def run(self, job: dict) -> dict:
+        job = {"pipe": self.pipe, **job}
+        done = subprocess.run(
+            [self.python, str(DRIVER)], input=json.dumps(job), capture_output=True, text=True, timeout=300
+        )
+        assert done.returncode == 0, done.stderr
+        return json.loads(done.stdout)
+
+    def close(self):
+        import signal
+
+        try:
+            os.killpg(self.office.pid, signal.SIGTERM)
+            self.office.wait(timeout=30)
+        except (ProcessLookupError, subprocess.TimeoutExpired):
+            os.killpg(self.office.pid, signal.SIGKILL)
+
+
+@pytest.fixture(scope="module")
+def calc(tmp_path_factory):
+    missing = _missing()
+    if missing:
+        if REQUIRED:
+            pytest.fail(f"CELLCHEM_CALC_TESTS=required but {missing}")
+        pytest.skip(missing)
+    office = Calc(tmp_path_factory.mktemp("calc"))
+    yield office
+    office.close()
+
+
+def test_extension_bundles_what_it_needs_and_nothing_compiled(calc):
+    with zipfile.ZipFile(calc.extension) as z:
+        names = z.namelist()
+    assert {"META-INF/manifest.xml", "CalcAddIns.xcu", "cellchem.rdb", "cellchem_calc.py"} <= set(names)
+    for module in ("cellchem/__init__.py", "pyparsing/__init__.py", "pint/__init__.py"):
+        assert f"pythonpath/{module}" in names
+    assert not [n for n in names if n.endswith((".so", ".pyd", ".pyc"))]
+    assert not [
+        n for n in names if "/adapters/" in n and n.rsplit("/", 1)[-1] in ("workbook.py", "package.py")
+    ]
+    assert any(n.startswith("licenses/pyparsing-") for n in names)
+
+
+def test_bundle_runs_on_its_own(calc, tmp_path):
+    """The bundled core works with nothing but the standard library beside it."""
+    with zipfile.ZipFile(calc.extension) as z:
+        z.extractall(tmp_path)
+    code = (
+        "import sys; sys.path.insert(0, sys.argv[1]);"
+        "from cellchem.adapters import sheet_functions as sf;"
+        "import cellchem, pint; assert cellchem.__file__.startswith(sys.argv[1]), cellchem.__file__;"
+        "print(sf.cc_molarmass('CuSO4.5H2O'), sf.cc_grams('NaCl', '0.1 M', '1 L'))"
+    )
+    out = subprocess.run(
+        [sys.executable, "-I", "-S", "-c", code, str(tmp_path / "pythonpath")],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+    assert out.returncode == 0, out.stderr
+    mm, grams = out.stdout.split()
+    assert float(mm) == pytest.approx(249.677, abs=0.01)  # CuSO4.5H2O, CIAAW 2021 weights (from memory)
+    assert float(grams) == pytest.approx(5.844, abs=0.001)  # 0.1 mol of NaCl, 58.44 g/mol (common practice)
+
+
+# One row per call: the function and its arguments (None: the cell is left empty).
+SINGLE = [
+    ("CC_FORMULA", ["ferric chloride"]),
+    ("CC_FORMULA", ["Copper(II) sulfate pentahydrate"]),
+    ("CC_FORMULA", ["unobtainium chloride"]),
+    ("CC_FORMULA", [None]),
+    ("CC_NAME", ["FeCl3", None]),
+    ("CC_NAME", ["FeCl3", "legacy"]),
+    ("CC_NAME", ["Al2(SO4)3", "american"]),
+    ("CC_SALT", ["Al3+", "sulfate"]),
+    ("CC_SALT", ["iron(III)", "O2-"]),
+    ("CC_MOLARMASS", ["CuSO4.5H2O"]),
+    ("CC_MOLARMASS", ["co Cl2"]),
+    ("CC_MOLARMASS", [None]),
+    ("CC_MASSFRACTION", ["CuSO4.5H2O", "Cu"]),
+    ("CC_NETCHARGE", ["SO4 2-"]),
+    ("CC_OXSTATE", ["KMnO4", "Mn"]),
+    ("CC_OXSTATE", ["Fe3O4", "Fe"]),
+    ("CC_BALANCED", ["NaCl2"]),
+    ("CC_BALANCED", ["NaCl"]),
+    ("CC_CHECKLINE", ["Sodium sulfite", "Na2SO4", None, None]),
+    ("CC_CHECKLINE", ["Sodium chloride", "NaCl", 58.44, "7647-14-5"]),
+    ("CC_CASVALID", ["7732-18-5"]),
+    ("CC_CASVALID", ["7732-18-6"]),
+    ("CC_IONICSTRENGTH", ["MgCl2", 0.1]),
+    ("CC_IONICSTRENGTH", ["MgCl2", "10 mmol/L"]),
+    ("CC_ACTIVITY", ["Ca2+", 0.01, "extended", None]),
+    ("CC_ACTIVITY", ["Ca2+", 0.01, None, 37]),
+    ("CC_CONDUCTIVITY", ["KCl", 0.01, None]),
+    ("CC_CONDUCTIVITY", ["KCl", 0.01, 20]),
+    ("CC_GRAMS", ["CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O"]),
+    ("CC_GRAMS", ["NaCl", "0.5 M", 2, "99.5%", None]),
+    ("CC_GRAMS", ["NaCl", 0.1, 1, 99, None]),
+    ("CC_CONVERT", [37, "% w/w", "mol/L", "HCl", 1.18]),
+    ("CC_CONVERT", [0.1, "mol/L", "g/L", "NaCl", None]),
+    ("CC_FULLMESSAGE", ["plain text"]),
+]
+COLUMNS = "ABCDE"
+
+
+def _calc_value(v):
+    """What Calc shows for a value: to_calc's cell, as the driver reports it."""
+    cell = to_calc(v)[0][0]
+    return ["value", cell] if isinstance(cell, float) else ["text", cell]
+
+
+def _same(got, want):
+    if want[0] == "value":
+        return got[0] == "value" and got[1] == pytest.approx(want[1], rel=1e-12, abs=1e-12)
+    return got[:2] == want
+
+
+@pytest.fixture(scope="module")
+def single(calc):
+    cells, expected = [], {}
+    for row, (name, args) in enumerate(SINGLE, start=1):
+        refs = []
+        for i, (col, value) in enumerate(zip(COLUMNS, args)):
+            if value is None and i > 0:  # an argument left out, as a user leaves it out
+                refs.append("")
+                continue
+            refs.append(f"{col}{row}")  # the first one empty: a reference to an empty cell
+            if value is not None:
+                cells.append([f"{col}{row}", value])
+        cells.append([f"G{row}", f"={name}({';'.join(refs)})"])
+        # the same call as the Excel layer makes it: empty cells as None
+        expected[f"G{row}"] = _calc_value(sf.FUNCTIONS[name].implementation(*args))
+    return calc.run({"cells": cells}), expected
+
+
+@pytest.mark.parametrize("row", range(1, len(SINGLE) + 1))
+def test_every_function_on_single_cells_matches_the_core(single, row):
+    result, expected = single
+    got = result["cells"].get(f"G{row}", ["text", ""])
+    assert _same(got, expected[f"G{row}"]), (SINGLE[row - 1], got)
+
+
+def test_every_function_is_called(single):
+    assert {name for name, _ in SINGLE} | {"CC_IONS", "CC_IONBALANCE"} == set(sf.FUNCTIONS)
+
+
+RANGE_INPUT = ["CuSO4.5H2O", "NaCl", None, "co Cl2", "Fe2(SO4)3"]
+
+
+def test_ranges_in_arrays_out(calc):
+    cells = [[f"A{r}", v] for r, v in enumerate(RANGE_INPUT, start=1) if v is not None]
+    cells += [["B1", 2], ["B2", 1], ["C1", "NaCl"], ["C2", "K2SO4"], ["D1", 0.1], ["D2", "20 mmol/L"]]
+    cells += [["C4", "Ca2+"], ["C5", "Mg2+"], ["C6", "HCO3-"], ["C7", "Cl-"]]
+    cells += [["D4", 2.0], ["D5", 1.0], ["D6", 2.5], ["D7", 0.45]]
+    arrays = [
+        ["F1:F5", "=CC_MOLARMASS(A1:A5)"],
+        ["G1:G5", "=CC_NAME(A1:A5)"],
+        ["H1:H5", "=CC_BALANCED(A1:A5)"],
+        ["I1:K2", '=CC_IONS("Al2(SO4)3")'],
+        ["I4:L4", "=CC_IONBALANCE(C4:C7;D4:D7)"],
+    ]
+    cells += [["I6", "=CC_IONICSTRENGTH(C1:C2;D1:D2)"], ["I7", "=CC_CONDUCTIVITY(C1:C2;D1:D2)"]]
+    got = calc.run({"cells": cells, "arrays": arrays})["cells"]
+    column = [[v] for v in RANGE_INPUT]
+    expect = {}
+    for col, fn in (("F", sf.cc_molarmass), ("G", sf.cc_name), ("H", sf.cc_balanced)):
+        for r, (value,) in enumerate(to_calc(fn(column)), start=1):
+            expect[f"{col}{r}"] = value
+    for r, line in enumerate(to_calc(sf.cc_ions("Al2(SO4)3")), start=1):
+        for col, value in zip("IJK", line):
+            expect[f"{col}{r}"] = value
+    balance = sf.cc_ionbalance([["Ca2+"], ["Mg2+"], ["HCO3-"], ["Cl-"]], [[2.0], [1.0], [2.5], [0.45]])
+    for col, value in zip("IJKL", to_calc(balance)[0]):
+        expect[f"{col}4"] = value
+    pairs = ([["NaCl"], ["K2SO4"]], [[0.1], ["20 mmol/L"]])
+    expect["I6"] = to_calc(sf.cc_ionicstrength(*pairs))[0][0]
+    expect["I7"] = to_calc(sf.cc_conductivity(*pairs))[0][0]
+    assert expect["F3"] == "" and str(expect["F4"]).startswith(
+        "#cellchem: "
+    )  # empty in, empty out; refusal text
+    for ref, want in expect.items():
+        cell = got.get(ref, ["text", ""])
+        assert _same(cell, ["value", want] if isinstance(want, float) else ["text", want]), (ref, cell, want)
+
+
+def test_empty_cell_zero_rules(calc):
+    """Calc passes a reference to an empty cell as 0: text arguments read it as
+    empty, arguments where 0 and empty differ refuse it, with the way out."""
+    cells = [
+        ["A1", "=CC_MOLARMASS(Z1)"],
+        ["A2", '=CC_ACTIVITY("Ca2+";0.01;;Z1)'],
+        ["A3", '=CC_ACTIVITY("Ca2+";0.01;;"0")'],
+        ["A4", '=CC_CHECKLINE("Sodium chloride";"NaCl";Z1;Z2)'],
+    ]
+    got = calc.run({"cells": cells})["cells"]
+    assert got.get("A1", ["text", ""])[:2] == ["text", ""]
+    assert got["A2"][0] == "text" and got["A2"][1].startswith("#cellchem: temperature_c: read 0")
+    assert got["A3"][1] == pytest.approx(float(sf.cc_activity("Ca2+", 0.01, None, "0")))
+    assert got.get("A4", ["text", ""])[:2] == ["text", sf.cc_checkline("Sodium chloride", "NaCl")]
+
+
+def test_function_wizard_shows_names_descriptions_and_arguments(calc):
+    wizard = calc.run({"cells": []})["wizard"]
+    assert set(wizard) == set(sf.FUNCTIONS)
+    for name, spec in sf.FUNCTIONS.items():
+        assert wizard[name]["description"] == spec.summary
+        assert [a[0] for a in wizard[name]["arguments"]] == [a.name for a in spec.arguments]
+        for (_n, description, _optional), a in zip(wizard[name]["arguments"], spec.arguments):
+            assert description.startswith(a.description)
+
+
+def test_demo_workbook_shows_the_core_values_in_calc(calc):
+    from demo_values import check_demo_values
+
+    got = calc.run({"open": str(ROOT / "workbooks" / "demo-worksheet-functions.ods")})["cells"]
+    check_demo_values(lambda ref: got.get(ref, ["text", ""])[1])
