@@ -54,7 +54,9 @@ def main():
     desktop = smgr.createInstanceWithContext("com.sun.star.frame.Desktop", ctx)
     if "open" in job:
         url = uno.systemPathToFileUrl(job["open"])
-        doc = desktop.loadComponentFromURL(url, "_blank", 0, (prop("Hidden", True),))
+        doc = desktop.loadComponentFromURL(url, "_blank", 0, (prop("Hidden", True), prop("ReadOnly", True)))
+        if doc is None:
+            raise SystemExit(f"LibreOffice did not open {job['open']}")
     else:
         doc = desktop.loadComponentFromURL("private:factory/scalc", "_blank", 0, (prop("Hidden", True),))
     try:
