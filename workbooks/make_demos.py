@@ -563,19 +563,20 @@ def functions_workbook(path: Path) -> None:
 # LibreOffice Calc reads add-in functions in OpenDocument files by their
 # programmatic names; LibreOffice 7.4 does not map the CC_* names in .xlsx
 # files to the add-in (README, LibreOffice Calc), so the demo has an .ods twin.
-CALC_PREFIX = "ORG.CELLCHEM.SHEET.FUNCTIONS."
 
 
 def _odf_formula(formula: str) -> str:
-    """An Excel-style formula (=CC_X(B5,"a")) in OpenFormula (of:=...CCX([.B5];"a"))."""
+    """An Excel-style formula (=CC_X(B5,"a")) in OpenFormula (of:=ORG...CCX([.B5];"a"))."""
     import re
+
+    from cellchem.adapters.calc.component import IMPLEMENTATION, method_name
 
     out = []
     for token in re.findall(r'"[^"]*"|CC_[A-Z]+|[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?|.', formula.lstrip("=")):
         if token.startswith('"'):
             out.append(token)
         elif token.startswith("CC_"):
-            out.append(CALC_PREFIX + "CC" + token[3:])
+            out.append(f"{IMPLEMENTATION}.{method_name(token)}".upper())
         elif re.fullmatch(r"[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?", token):
             out.append("[" + ":".join("." + part for part in token.split(":")) + "]")
         elif token == ",":

@@ -222,17 +222,30 @@ def compile_idl(idl: Path, rdb: Path, program: Path, compiler: Path) -> None:
 # -- the bundle -----------------------------------------------------------------------------------
 
 
-def _cellchem_files() -> list[tuple[Path, str]]:
-    root = HERE.parent.parent  # the cellchem package
-    files: list[tuple[Path, str]] = []
-    for path in sorted(root.rglob("*")):
-        rel = path.relative_to(root)
+def _package_files(top: Path, module: str) -> list[tuple[Path, str]]:
+    """The files of a package directory (no caches, no test suites), refusing compiled code."""
+    files = []
+    for path in sorted(top.rglob("*")):
+        rel = path.relative_to(top)
         if path.is_dir() or SKIP_DIRS.intersection(rel.parts) or path.suffix in (".pyc", ".pyo"):
             continue
-        if rel.parts[0] == "adapters" and (len(rel.parts) > 2 or rel.name not in CELLCHEM_ADAPTERS):
-            continue
-        files.append((path, f"pythonpath/cellchem/{rel.as_posix()}"))
+        if path.suffix in (".so", ".pyd", ".dll", ".dylib"):
+            raise BuildError(
+                f"{module} holds compiled code ({path.name}); the extension bundles pure Python only"
+            )
+        files.append((path, f"pythonpath/{module}/{rel.as_posix()}"))
     return files
+
+
+def _cellchem_files() -> list[tuple[Path, str]]:
+    """The core, and of the adapters only the worksheet layer."""
+    root = HERE.parent.parent  # the cellchem package
+    adapters = {f"pythonpath/cellchem/adapters/{name}" for name in CELLCHEM_ADAPTERS}
+    return [
+        (path, name)
+        for path, name in _package_files(root, "cellchem")
+        if not name.startswith("pythonpath/cellchem/adapters/") or name in adapters
+    ]
 
 
 def _module_files(module: str) -> list[tuple[Path, str]]:
@@ -241,33 +254,26 @@ def _module_files(module: str) -> list[tuple[Path, str]]:
         raise BuildError(f"{module} is not installed in this Python ({sys.executable}); pip install cellchem")
     origin = Path(spec.origin)
     if spec.submodule_search_locations:
-        top = origin.parent
-        files = []
-        for path in sorted(top.rglob("*")):
-            rel = path.relative_to(top)
-            if path.is_dir() or SKIP_DIRS.intersection(rel.parts) or path.suffix in (".pyc", ".pyo"):
-                continue
-            if path.suffix in (".so", ".pyd", ".dll", ".dylib"):
-                raise BuildError(
-                    f"{module} holds compiled code ({path.name}); the extension bundles pure Python only"
-                )
-            files.append((path, f"pythonpath/{module}/{rel.as_posix()}"))
-        return files
+        return _package_files(origin.parent, module)
     if origin.suffix != ".py":
         raise BuildError(f"{module} is compiled code ({origin.name}); the extension bundles pure Python only")
     return [(origin, f"pythonpath/{origin.name}")]
 
 
 def _licence_files(module: str) -> list[tuple[Path, str]]:
-    out = []
+    found: dict[str, Path] = {}  # path in the extension -> file (a licence listed twice is kept once)
     for dist in sorted(set(importlib.metadata.packages_distributions().get(module, []))):
         d = importlib.metadata.distribution(dist)
         for f in d.files or []:
-            name = Path(str(f)).name.upper()
-            if name.startswith(("LICENSE", "LICENCE", "COPYING", "NOTICE")) or "/licenses/" in str(f).lower():
+            name = Path(str(f)).name
+            if (
+                name.upper().startswith(("LICENSE", "LICENCE", "COPYING", "NOTICE"))
+                or "/licenses/" in str(f).lower()
+            ):
                 path = Path(d.locate_file(f))
-                if path.is_file() and all(name != n for _p, n in out):
-                    out.append((path, f"licenses/{dist}-{d.version}/{Path(str(f)).name}"))
+                if path.is_file():
+                    found.setdefault(f"licenses/{dist}-{d.version}/{name}", path)
+    out = [(path, target) for target, path in found.items()]
     if not out:
         raise BuildError(f"no licence file found for the bundled {module}; it is not bundled without one")
     return out

@@ -72,8 +72,6 @@ def _make_class(sheet_functions, cells, problem: str | None):
         implementation = spec.implementation
 
         def call(self, *values):
-            if problem is not None:
-                return ((MARK + problem,),)
             try:
                 args = [cells.from_calc(v, z) for v, z in zip(values, zeros)]
                 return cells.to_calc(implementation(*args))
@@ -90,10 +88,10 @@ def _make_class(sheet_functions, cells, problem: str | None):
         "supportsService": lambda self, name: name == SERVICE,
         "getSupportedServiceNames": lambda self: (SERVICE,),
     }
-    functions = sheet_functions.FUNCTIONS if sheet_functions is not None else {}
-    for spec in functions.values():
-        namespace[method_name(spec.name)] = method(spec)
-    if problem is not None:  # every method still answers, with the reason
+    if problem is None:
+        for spec in sheet_functions.FUNCTIONS.values():
+            namespace[method_name(spec.name)] = method(spec)
+    else:  # the bundle could not be used: every method answers with the reason
         namespace["__getattr__"] = lambda self, name: lambda *a: ((MARK + problem,),)
     return type("CellchemFunctions", (unohelper.Base, XCellchemFunctions, XServiceInfo), namespace)
 
