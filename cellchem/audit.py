@@ -7,7 +7,6 @@ workbook nor a spreadsheet library is needed here.
 
 from __future__ import annotations
 
-import difflib
 import math
 import re
 from collections import Counter
@@ -16,7 +15,7 @@ from dataclasses import dataclass, field
 from functools import cache
 
 from .cas import read_cas
-from .charge import charge_balance
+from .charge import ORGANIC, charge_balance
 from .columns import Layout, find_layout
 from .elements import all_elements
 from .errors import CellchemError
@@ -24,7 +23,7 @@ from .formula import Formula, case_readings, parse_formula
 from .ions import catalog, counts_key
 from .mass import molar_mass
 from .memo import Memo, typed
-from .names import name_from_formula, read_name
+from .names import known_hydrates, name_from_formula, read_name, same_substance
 from .tables import read_table
 
 ERROR = "error"
@@ -143,6 +142,10 @@ def _element_key(ion: tuple[str, int, str, str]) -> tuple:
     return counts_key(parse_formula(ion[0]).counts)
 
 
+def _listing(ions: list[tuple[str, int, str, str]]) -> str:
+    return " and ".join(f"{i[2]} ({i[3]})" for i in ions)
+
+
 def how_they_differ(named: Formula, formula: Formula) -> str:
     """Say how the formula a name reads as differs from a line's formula:
     water of crystallisation, a charge (Stock number), a different ion, or
@@ -179,9 +182,11 @@ def how_they_differ(named: Formula, formula: Formula) -> str:
     same_cations = {(i[0], i[1]) for i in cat_a} == {(i[0], i[1]) for i in cat_b}
     if same_anions and not same_cations:
         if {_element_key(i) for i in cat_a} == {_element_key(i) for i in cat_b}:
-            x = next(i for i in cat_a if (i[0], i[1]) not in {(j[0], j[1]) for j in cat_b})
-            y = next(i for i in cat_b if (i[0], i[1]) not in {(j[0], j[1]) for j in cat_a})
-            return f"a different charge: the name has {x[2]} ({x[3]}), the formula {y[2]} ({y[3]})"
+            keys_a = {(j[0], j[1]) for j in cat_a}
+            keys_b = {(j[0], j[1]) for j in cat_b}
+            x = _listing([i for i in cat_a if (i[0], i[1]) not in keys_b]) or "only " + _listing(cat_a)
+            y = _listing([i for i in cat_b if (i[0], i[1]) not in keys_a]) or "only " + _listing(cat_b)
+            return f"a different charge: the name has {x}, the formula {y}"
         x = ", ".join(f"{i[2]} ({i[3]})" for i in cat_a)
         y = ", ".join(f"{i[2]} ({i[3]})" for i in cat_b)
         return f"a different cation: the name has {x}, the formula {y}"
@@ -199,53 +204,131 @@ def how_they_differ(named: Formula, formula: Formula) -> str:
 _WORD = re.compile(r"[A-Za-z]{4,}")
 
 
+def _words(text: str) -> set[str]:
+    return {w for w in re.findall(r"[a-z]+", text.casefold()) if len(w) >= 4}
+
+
 @cache
-def _vocabulary() -> tuple[str, ...]:
+def _main_vocabulary() -> frozenset[str]:
+    """Words of ion, element and compound names."""
     words: set[str] = set()
-
-    def add(text: str) -> None:
-        for w in re.findall(r"[a-z]+", text.casefold()):
-            if len(w) >= 4:
-                words.add(w)
-
     for ion in catalog():
-        add(ion.name)
-        add(ion.legacy_name)
-        for other in ion.other_names:
-            add(other)
-    for table, column in (
-        ("elements.csv", "name"),
-        ("trivial_names.csv", "name"),
-        ("named_compounds.csv", "name"),
-        ("acids.csv", "name"),
-        ("qualifiers.csv", "word"),
-        ("hydrate_words.csv", "word"),
-        ("ligands.csv", "name"),
+        for name in (ion.name, ion.legacy_name, *ion.other_names):
+            words |= _words(name)
+    for table in (
+        "elements.csv",
+        "trivial_names.csv",
+        "named_compounds.csv",
+        "acids.csv",
+        "hydrate_words.csv",
     ):
         for row in read_table(table):
-            add(row.get(column, ""))
+            words |= _words(row.get("name", row.get("word", "")))
+    return frozenset(words)
+
+
+@cache
+def _vocabulary() -> tuple[str, ...]:
+    words = set(_main_vocabulary())
+    for table, column in (("qualifiers.csv", "phrase"), ("ligands.csv", "name")):
+        for row in read_table(table):
+            words |= _words(row.get(column, ""))
     return tuple(sorted(words))
 
 
+# A respelling must never turn one real name into another: a word that ends
+# in one of these suffixes is not respelled into a word that differs from it
+# only there (dithionate is not a misspelled dithionite, sulfate not sulfite).
+_SUFFIXES = ("ate", "ite", "ide", "ine", "ium", "ous", "ic", "yl")
+
+
+def _one_edit(a: str, b: str) -> bool:
+    """True when b is a with one letter added, dropped, changed, or two
+    neighbouring letters swapped (a typing slip)."""
+    if a == b or abs(len(a) - len(b)) > 1:
+        return False
+    if len(a) == len(b):
+        diff = [i for i in range(len(a)) if a[i] != b[i]]
+        if len(diff) == 1:
+            return True
+        return (
+            len(diff) == 2
+            and diff[1] == diff[0] + 1
+            and a[diff[0]] == b[diff[1]]
+            and a[diff[1]] == b[diff[0]]
+        )
+    short, long_ = (a, b) if len(a) < len(b) else (b, a)
+    i = 0
+    while i < len(short) and short[i] == long_[i]:
+        i += 1
+    return short[i:] == long_[i + 1 :]
+
+
+def _doubling(a: str, b: str) -> bool:
+    """True when a and b differ by one letter typed once instead of twice (or the reverse)."""
+    short, long_ = (a, b) if len(a) < len(b) else (b, a)
+    if len(long_) != len(short) + 1:
+        return False
+    i = 0
+    while i < len(short) and short[i] == long_[i]:
+        i += 1
+    return (i > 0 and long_[i] == long_[i - 1]) or (i + 1 < len(long_) and long_[i] == long_[i + 1])
+
+
+def _swaps_suffix(word: str, candidate: str) -> bool:
+    """True when both words end in a chemical suffix and differ only in it."""
+    for a in _SUFFIXES:
+        for b in _SUFFIXES:
+            if (
+                a != b
+                and word.endswith(a)
+                and candidate.endswith(b)
+                and word[: -len(a)] == candidate[: -len(b)]
+            ):
+                return True
+    return False
+
+
+@cache
+def _real_words() -> frozenset[str]:
+    """Words of real substance names that cellchem does not read: never respelled."""
+    return frozenset(row["word"].casefold() for row in read_table("unread_words.csv"))
+
+
 def respell(name: str) -> str | None:
-    """The name with each word that cellchem does not know replaced by the
-    closest word it does (``'Sodium Cloride'`` -> ``'Sodium chloride'``), or
-    None when no word needed replacing or none is close enough.
+    """The name with each word that cellchem does not know replaced by the one
+    known word a single typing slip away (``'Sodium Cloride'`` -> ``'Sodium
+    Chloride'``), or None when no word needed replacing or a word has no such
+    unique neighbour. A word that is a real word cellchem does not read
+    (``sorbate``) is left alone, and no word is respelled into one that differs
+    from it only in its chemical suffix (``dithionate`` stays, it is not
+    ``dithionite``). A respelling is a hint: the audit reports it as a note
+    and never builds an error on it.
 
     >>> respell("Sodium Cloride")
     'Sodium Chloride'
+    >>> respell("sodium dithionate") is None
+    True
     """
     vocab = _vocabulary()
     known = set(vocab)
+    real = _real_words()
     changed = False
 
     def fix(m: re.Match[str]) -> str:
         nonlocal changed
         word = m.group(0)
-        if word.casefold() in known:
+        low = word.casefold()
+        if low in known or low in real or len(low) < 5:
             return word
-        close = difflib.get_close_matches(word.casefold(), vocab, n=1, cutoff=0.85)
-        if not close:
+        close = [w for w in vocab if _one_edit(low, w) and not _swaps_suffix(low, w)]
+        if len(close) > 1:
+            # the commonest slip first: a doubled letter typed once or twice
+            # ('amonium', 'potasium'), then a main vocabulary word over a ligand
+            # or grade word ('sulfat' is sulfate, not sulfato)
+            doubled = [w for w in close if _doubling(low, w)]
+            close = doubled or [w for w in close if w in _main_vocabulary()] or close
+        if len(close) != 1:
             return word
         changed = True
         return close[0].capitalize() if word[0].isupper() else close[0]
@@ -264,63 +347,21 @@ def check_name(name: object, formula: Formula | None) -> list[Finding]:
     Returns:
         Findings: an error when they disagree (saying how: hydrate, charge,
         ion, parentheses), a warning when the name is silent about the
-        hydrate the formula has, a note when the name cannot be read (organic
-        names, mixtures, product codes are not checked), is misspelled, or
-        leaves a charge open that the formula settles.
+        hydrate or the acid hydrogens the formula has, a note when the name
+        cannot be read (organic names, mixtures, product codes are not
+        checked), is misspelled, or leaves open what the formula settles. No
+        error rests on a name cellchem refuses to read or on a respelling:
+        those give notes and warnings only.
     """
     if _blank(name):
         return []
     text = str(name).strip()
-    spelled = ""
     try:
         reading = read_name(text)
     except CellchemError as exc:
-        if exc.choices and formula is not None:
-            dry = formula.anhydrous()
-            matches = [c for c in exc.choices if _same(parse_formula(c), dry)]
-            if len(matches) == 1:
-                full = _full_name(parse_formula(matches[0]).with_water(formula.water))
-                return [
-                    Finding(
-                        "name",
-                        NOTE,
-                        f"the name '{text}' leaves a charge open; the formula {formula.text()} settles it:"
-                        f" {full}",
-                        full,
-                        "name",
-                    )
-                ]
-            if not matches:
-                return [
-                    Finding(
-                        "name",
-                        ERROR,
-                        f"the name '{text}' fits none of its readings to the formula {formula.text()}: {exc}",
-                        "",
-                        "name",
-                    )
-                ]
-        respelled = respell(text)
-        if respelled is not None:
-            try:
-                reading = read_name(respelled)
-                spelled = respelled
-            except CellchemError:
-                return [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
-        else:
-            return [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
+        return _refused_name(text, exc, formula)
     named = parse_formula(reading.formula)
     out: list[Finding] = []
-    if spelled:
-        out.append(
-            Finding(
-                "name-spelling",
-                NOTE,
-                f"the name '{text}' is misspelled; it reads as '{spelled}' ({named.text()})",
-                spelled,
-                "name",
-            )
-        )
     if formula is None:
         out.append(
             Finding(
@@ -332,12 +373,14 @@ def check_name(name: object, formula: Formula | None) -> list[Finding]:
             )
         )
         return out
-    if _same(named, formula):
+    if _same(named, formula) or same_substance(named, formula):
         return out
-    if _same(named.anhydrous(), formula.anhydrous()):
+    if _same(named.anhydrous(), formula.anhydrous()) or same_substance(
+        named.anhydrous(), formula.anhydrous()
+    ):
         if formula.water is None or named.water is None:
             return out
-        stated = any(q.kind == "hydrate" for q in reading.qualifiers)
+        stated = any(q.kind == "hydrate" for q in reading.qualifiers) or bool(named.water)
         if not stated and named.water == 0:
             out.append(
                 Finding(
@@ -361,6 +404,18 @@ def check_name(name: object, formula: Formula | None) -> list[Finding]:
             )
         )
         return out
+    if _acid_hydrogens_only(named, formula) and not _says_hydrogens(reading):
+        out.append(
+            Finding(
+                "name",
+                WARNING,
+                f"the name '{text}' reads as {named.text()}, the formula is {formula.text()}: the same"
+                " ions, but the name does not say how many of the acid's hydrogens the formula's anion keeps",
+                _full_name(formula),
+                "name",
+            )
+        )
+        return out
     how = how_they_differ(named, formula)
     out.append(
         Finding(
@@ -373,6 +428,154 @@ def check_name(name: object, formula: Formula | None) -> list[Finding]:
         )
     )
     return out
+
+
+def _refused_name(text: str, exc: CellchemError, formula: Formula | None) -> list[Finding]:
+    """Findings for a name the reader refuses: never an error built on a
+    reading it does not make, except where the refusal lists every reading
+    the name allows (a charge left open) and the formula fits none of them."""
+    reason = getattr(exc, "reason", "")
+    if formula is not None and exc.choices:
+        dry = formula.anhydrous()
+        matches = [c for c in exc.choices if _same(parse_formula(c).anhydrous(), dry)]
+        matches = matches or [c for c in exc.choices if same_substance(parse_formula(c).anhydrous(), dry)]
+        if reason == "open-charge":
+            if len(matches) == 1:
+                full = _full_name(parse_formula(matches[0]).anhydrous().with_water(formula.water))
+                return [
+                    Finding(
+                        "name",
+                        NOTE,
+                        f"the name '{text}' leaves a charge open; the formula {formula.text()} settles it:"
+                        f" {full}",
+                        full,
+                        "name",
+                    )
+                ]
+            if not matches:
+                return [
+                    Finding(
+                        "name",
+                        ERROR,
+                        f"the name '{text}' fits none of its readings to the formula {formula.text()}: {exc}",
+                        "",
+                        "name",
+                    )
+                ]
+        elif matches:
+            full = _full_name(formula)
+            return [
+                Finding(
+                    "name",
+                    NOTE,
+                    f"the name '{text}' is used for more than one compound ({', '.join(exc.choices)}); the"
+                    f" formula {formula.text()} is one of them: {full}",
+                    full,
+                    "name",
+                )
+            ]
+        else:
+            return [
+                Finding(
+                    "name",
+                    WARNING,
+                    f"the name '{text}' is used for {' or '.join(exc.choices)}; the formula {formula.text()}"
+                    " is none of them (one of the two cells may be wrong)",
+                    "",
+                    "name",
+                )
+            ]
+    ions = getattr(exc, "ions", ())
+    if reason == "ratio" and formula is not None and ions:
+        held = _ion_keys(formula)
+        if held is not None and set(held) == set(ions):
+            return [
+                Finding(
+                    "name",
+                    NOTE,
+                    f"the name '{text}' names the ions of the formula {formula.text()} but not their ratio;"
+                    " the formula gives it",
+                    _full_name(formula),
+                    "name",
+                )
+            ]
+        if held is not None:
+            named = ", ".join(f"{f}{_sign(c)}" for f, c in ions)
+            have = ", ".join(f"{f}{_sign(c)}" for f, c in held)
+            return [
+                Finding(
+                    "name",
+                    WARNING,
+                    f"the name '{text}' names the ions {named}; the formula {formula.text()} holds {have}",
+                    "",
+                    "name",
+                )
+            ]
+    out = [Finding("name", NOTE, f"name not checked: {exc}", "", "name")]
+    respelled = respell(text) if reason in ("unknown", "") else None
+    if respelled is not None:
+        try:
+            spelled = parse_formula(read_name(respelled).formula)
+        except CellchemError:
+            return out
+        if formula is None or _same(spelled, formula) or _same(spelled.anhydrous(), formula.anhydrous()):
+            return [
+                Finding(
+                    "name-spelling",
+                    NOTE,
+                    f"the name '{text}' is misspelled; it reads as '{respelled}' ({spelled.text()})",
+                    respelled,
+                    "name",
+                )
+            ]
+        return [
+            Finding(
+                "name",
+                NOTE,
+                f"name not checked: {exc}; it may be a misspelling of '{respelled}' ({spelled.text()}),"
+                f" which is not the formula {formula.text()}",
+                "",
+                "name",
+            )
+        ]
+    return out
+
+
+def _sign(charge: int) -> str:
+    return ("" if abs(charge) == 1 else str(abs(charge))) + ("+" if charge > 0 else "-")
+
+
+def _ion_keys(f: Formula) -> set[tuple[str, int]] | None:
+    """The (formula, charge) of each ion of a formula, coordination entities
+    also as their metal ion and ligand anions; None when it is not ionic."""
+    from .names import _ion_sets
+
+    sets = _ion_sets(f.anhydrous())
+    if not sets:
+        return None
+    return set().union(*sets)
+
+
+def _acid_hydrogens_only(named: Formula, formula: Formula) -> bool:
+    """True when the two formulas hold the same cations and anions of the same
+    acids, and differ only in how many acid hydrogens the anions keep
+    (Na3C6H5O7 and Na2HC6H5O7)."""
+    from .names import acid_families
+
+    a, b = acid_families(named.anhydrous()), acid_families(formula.anhydrous())
+    return (
+        a is not None
+        and a == b
+        and counts_key(named.anhydrous().counts) != counts_key(formula.anhydrous().counts)
+    )
+
+
+def _says_hydrogens(reading) -> bool:
+    words = reading.text.casefold()
+    return bool(
+        re.search(r"hydrogen|\bbi[a-z]|basic|\b(?:mono|di|tri|tetra)-?[a-z]|\bacid\b", words)
+        or any(q.kind == "basicity" for q in reading.qualifiers)
+    )
 
 
 def _full_name(f: Formula) -> str:
@@ -473,7 +676,7 @@ def check_line(
                 )
             )
     balance = charge_balance(f)
-    if not balance.balanced:
+    if not balance.balanced and balance.kind != ORGANIC:
         findings.append(Finding("charge", ERROR, balance.explanation, "", "formula"))
     mass: float | None = None
     try:
@@ -491,7 +694,8 @@ def check_line(
         if abs(value - mass) > tolerance:
             hint = ""
             dry = f.anhydrous()
-            for n in (0, 0.5, 1, 1.5, 2, 3, 4, 5, 6, 7, 8, 9, 10, 12):
+            # only hydrates that exist (data/hydrates.csv): never a hint of KNO3·0.5H2O
+            for n in sorted({0, *known_hydrates(dry)}):
                 other = dry.with_water(n)
                 if other == f or other.has_unknown_count:
                     continue
@@ -544,11 +748,39 @@ class RowResult:
         return self.columns.get(finding.field, "")
 
 
+INTERNAL = "internal"
+
+
+def _guarded(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
+    """check_line, with a failure of cellchem's own (not of the input) kept to
+    this line: one bad row never hides the rest of a file."""
+    try:
+        return check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma)
+    except RecursionError as exc:
+        why = f"{type(exc).__name__}"
+    except Exception as exc:  # a defect of cellchem: reported on the row, never raised
+        why = f"{type(exc).__name__}: {str(exc).splitlines()[0] if str(exc) else ''}".rstrip(": ")
+    return LineResult(
+        None,
+        None,
+        (
+            Finding(
+                INTERNAL,
+                WARNING,
+                f"cellchem failed on this line ({why}); the line was not checked: please report it with"
+                " the line's cells",
+                "",
+                "",
+            ),
+        ),
+    )
+
+
 def _check_line_cached(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
     """check_line, remembered for repeated lines (stock lists repeat compounds)."""
     return _LINES.get(
         (typed(formula, mass, name, cas), allowance, decimal_comma),
-        lambda: check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma),
+        lambda: _guarded(formula, mass, name, cas, allowance, decimal_comma),
     )
 
 
@@ -581,6 +813,10 @@ def audit_row(
         values["formula"], values["molar_mass"], values["name"], values["cas"], mass_allowance, decimal_comma
     )
     findings = result.findings
+    if any(f.check == INTERNAL for f in findings):
+        return RowResult(
+            row, NOT_CHECKED, "cellchem failed on the line (reported as a finding)", findings, letters
+        )
     if _blank(values["formula"]):
         unread = any(f.check == "name" and f.message.startswith("name not checked") for f in findings)
         if unread or _blank(values["name"]):

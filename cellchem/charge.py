@@ -22,7 +22,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from fractions import Fraction
-from functools import lru_cache
+from functools import cache, lru_cache
+from itertools import product
 
 from .elements import element
 from .errors import CellchemError, ChemistryError
@@ -32,6 +33,7 @@ from .ions import Ion, catalog, counts_key, ions_in
 ELEMENT = "element"
 IONIC = "ionic"
 MOLECULAR = "molecular"
+ORGANIC = "organic"
 UNBALANCED = "unbalanced"
 
 _NUMBER_WORDS = "zero one two three four five six seven eight nine ten eleven twelve".split()
@@ -67,7 +69,10 @@ class ChargeBalance:
     Attributes:
         balanced: True when some assignment of catalog charges (or, for a
             molecular compound, of oxidation states) sums to the formula's charge.
-        kind: ``'ionic'``, ``'molecular'``, ``'element'`` or ``'unbalanced'``.
+        kind: ``'ionic'``, ``'molecular'``, ``'element'``, ``'unbalanced'``, or
+            ``'organic'``: a carbon compound that reads neither as catalog ions nor
+            by the oxidation-state rules, for which charge balance is not
+            applicable (``balanced`` is False, and it is no error of the formula).
         charges: the assignment, as Shares in formula order (empty if none).
         explanation: one line saying what was found, or why not.
     """
@@ -119,13 +124,21 @@ def _compositions(n: int, k: int):
 
 
 def _run_options(
-    items: tuple[Item, ...], start: int, end: int, inside: bool, mixed: bool, oxo: bool = True
+    items: tuple[Item, ...],
+    start: int,
+    end: int,
+    inside: bool,
+    mixed: bool,
+    oxo: bool = True,
+    carbon: bool = False,
 ) -> list[_Option]:
     run = items[start:end]
     counts = _counts(run)
     options: list[_Option] = []
     for ion, k in ions_in(counts):
         if not oxo and ion.is_homonuclear and ion.text in ("O2", "O3"):
+            continue
+        if carbon and ion.charge < 0 and ion.text in _CARBIDE_LIKE:
             continue
         options.append(
             _Option(
@@ -148,7 +161,7 @@ def _run_options(
                 options.append(_Option(start, end, total, (0, 1, n), shares))
     if len(run) == 1 and isinstance(run[0], Group) and not options:
         group = run[0]
-        for charge, best in _solutions(group.items, True, mixed).items():
+        for charge, best in _solutions(group.items, True, mixed, True, True, carbon).items():
             score, path = best
             label = render_items((Group(group.items, 1, group.bracket),))
             shares = (Share(_label(label, charge), charge, group.count, None),)
@@ -174,7 +187,12 @@ Solution = tuple[tuple[int, int, int], tuple[_Option, ...]]
 
 @lru_cache(maxsize=16384)
 def _solutions(
-    items: tuple[Item, ...], inside: bool, mixed: bool, whole: bool = True, oxo: bool = True
+    items: tuple[Item, ...],
+    inside: bool,
+    mixed: bool,
+    whole: bool = True,
+    oxo: bool = True,
+    carbon: bool = False,
 ) -> dict[int, Solution]:
     """For every reachable total charge, the best reading of ``items``.
 
@@ -189,7 +207,7 @@ def _solutions(
         for j in range(i + 1, n + 1):
             if not whole and i == 0 and j == n:
                 continue
-            options = _run_options(items, i, j, inside, mixed, oxo)
+            options = _run_options(items, i, j, inside, mixed, oxo, carbon)
             for charge, (score, path) in dp[i].items():
                 for opt in options:
                     c = charge + opt.charge
@@ -200,7 +218,7 @@ def _solutions(
     return dp[n]
 
 
-def _reach(items: tuple[Item, ...]) -> int:
+def _reach(items: tuple[Item, ...], carbon: bool = False) -> int:
     """How many leading items some reading covers (for messages)."""
     n = len(items)
     reach = [False] * (n + 1)
@@ -210,18 +228,30 @@ def _reach(items: tuple[Item, ...]) -> int:
         if not reach[i]:
             continue
         for j in range(i + 1, n + 1):
-            if _run_options(items, i, j, False, False):
+            if _run_options(items, i, j, False, False, True, carbon):
                 reach[j] = True
                 best = max(best, j)
     return best
 
 
 def _solve(items: tuple[Item, ...], target: int) -> Solution | None:
-    oxo = _allows_oxo_ions(_counts(items))
-    found = _solutions(items, False, False, True, oxo).get(target)
+    counts = _counts(items)
+    oxo = _allows_oxo_ions(counts)
+    carbon = _bars_carbide(counts)
+    found = _solutions(items, False, False, True, oxo, carbon).get(target)
     if found is None:
-        found = _solutions(items, False, True, True, oxo).get(target)
+        found = _solutions(items, False, True, True, oxo, carbon).get(target)
     return found
+
+
+# Carbide C4-, acetylide C2 2- and nitride N3- stand only in binary compounds
+# (CaC2, Al4C3, Li3N, Mg3N2): a carbon compound of three or more elements is
+# never split into them (C2H3NaO2 is sodium acetate, not an acetylide): common practice.
+_CARBIDE_LIKE = frozenset({"C", "C2", "N"})
+
+
+def _bars_carbide(counts: dict[str, Number]) -> bool:
+    return "C" in counts and len(counts) > 2
 
 
 # Anions that do not stand with H+ alone: NH3 is not N3- with 3 H+, H2O2 not
@@ -438,13 +468,89 @@ def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
     plausible = solution is not None and _hydride_plausible(solution[1])
     if plausible and solution is not None and (metal or whole_ion or _acceptable_without_metal(solution[1])):
         return _PartReading(IONIC, _flatten(solution[1]), solution[1])
+    organic = "C" in counts and "H" in counts
+    if organic and metal:
+        by_counts = _organic_salt(counts_key(counts), target)
+        if by_counts is not None:
+            return _PartReading(
+                IONIC, by_counts, (_Option(0, len(part.items), target, (0, 0, 0), by_counts),)
+            )
     true_metal = any(element(s).is_metal for s in counts)
     if not metal or adduct or not true_metal:
         states = rule_states(counts, target)
         odd = _electrons(counts, target) % 2 == 1 and counts_key(counts) not in _STABLE_RADICALS
         if states is not None and not odd:
             return _PartReading(MOLECULAR, (), (), states)
+    if organic:
+        return _PartReading(ORGANIC, (), (), None, _why_organic(part, counts, metal))
     return _PartReading(UNBALANCED, (), (), None, _why_not(part, target))
+
+
+@cache
+def _carbon_anions() -> dict[frozenset[str], list[Ion]]:
+    """Catalog anions that hold carbon, by their set of elements."""
+    table: dict[frozenset[str], list[Ion]] = {}
+    for ion in catalog():
+        if ion.charge < 0 and "C" in ion.formula.counts and len(ion.formula.parts) == 1:
+            table.setdefault(frozenset(ion.formula.counts), []).append(ion)
+    return table
+
+
+@lru_cache(maxsize=4096)
+def _organic_salt(key: tuple[tuple[str, Number], ...], target: int) -> tuple[Share, ...] | None:
+    """A salt of a catalog organic anion read from element counts alone, as
+    safety data sheets print formulas in Hill order (C2H3NaO2 is sodium
+    acetate, C8H5KO4 potassium hydrogen phthalate, C10H14N2Na2O8 disodium
+    dihydrogen edetate): metal cations, ammonium if needed, and one kind of
+    catalog anion that takes up every other atom. None when no such reading,
+    or more than one, exists."""
+    counts = dict(key)
+    metals = {s: n for s, n in counts.items() if s != "H" and _forms_cation(s) and element(s).is_metal}
+    if not metals or any(not isinstance(n, int) for n in counts.values()):
+        return None
+    rest = {s: n for s, n in counts.items() if s not in metals}
+    found: list[tuple[Share, ...]] = []
+    for ammonium in range(0, min(rest.get("N", 0), rest.get("H", 0) // 4) + 1):
+        left = dict(rest)
+        if ammonium:
+            left["N"] -= ammonium
+            left["H"] -= 4 * ammonium
+        left = {s: n for s, n in left.items() if n}
+        for anion in _carbon_anions().get(frozenset(left), []):
+            a_counts = anion.formula.counts
+            m, r = divmod(left["C"], a_counts["C"])
+            if r or m == 0 or any(left[s] != m * a_counts[s] for s in a_counts):
+                continue
+            need = target - m * anion.charge - ammonium
+            for charges in _metal_charges(tuple(metals.items()), need):
+                shares = [Share(ion.label, ion.charge, n, ion) for ion, n in charges]
+                if ammonium:
+                    nh4 = next(i for i, k in ions_in({"N": 1, "H": 4}) if k == 1 and i.charge == 1)
+                    shares.append(Share(nh4.label, 1, ammonium, nh4))
+                shares.append(Share(anion.label, anion.charge, m, anion))
+                found.append(tuple(shares))
+    return found[0] if len(found) == 1 else None
+
+
+def _metal_charges(metals: tuple[tuple[str, Number], ...], total: int) -> list[list[tuple[Ion, Number]]]:
+    """Each way of giving every metal atom one catalog charge (all atoms of an
+    element alike) so that the charges sum to ``total``."""
+    choices = [[(ion, n) for ion in _cation_species(s) if ion.is_monatomic] for s, n in metals]
+    out = []
+    for combo in product(*choices):
+        if sum(ion.charge * n for ion, n in combo) == total:
+            out.append(list(combo))
+    return out
+
+
+def _why_organic(part: Part, counts: dict[str, Number], metal: bool) -> str:
+    text = render_items(part.items)
+    if metal:
+        return (
+            f"{text} is an organic compound: no anion of the catalog, with the metal cations, accounts for"
+            " its atoms, so charge balance is not applicable (check it by its molar mass and name)"
+        )
+    return f"{text} is an organic compound; charge balance is not applicable (check it by its molar mass)"
 
 
 def _fmt_state(value: Fraction) -> str:
@@ -456,14 +562,15 @@ def _fmt_state(value: Fraction) -> str:
 def _why_not(part: Part, target: int) -> str:
     items = part.items
     text = render_items(items)
-    reach = _reach(items)
+    counts = _counts(items)
+    reach = _reach(items, _bars_carbide(counts))
     if reach < len(items):
         rest = render_items(items[reach:])
         before = render_items(items[:reach])
         after = f" after '{before}'" if before else ""
         return f"no ion in the catalog matches '{rest}'{after}, so {text} cannot be split into ions"
     # closest reading: smallest |charge - target|
-    sols = {**_solutions(items, False, False, True, _allows_oxo_ions(_counts(items)))}
+    sols = {**_solutions(items, False, False, True, _allows_oxo_ions(counts), _bars_carbide(counts))}
     charge = min(sols, key=lambda c: (abs(c - target), sols[c][0]))
     shares = _flatten(sols[charge][1])
     phrases = []
@@ -543,6 +650,12 @@ def _merge(shares: list[Share]) -> tuple[Share, ...]:
 @lru_cache(maxsize=16384)
 def _analyse(formula: Formula) -> ChargeBalance:
     text = formula.text()
+    if any(s in _ISOTOPES for s in formula.counts):
+        # D and T stand where H would (D2O, CDCl3, NaOD): balance the protium formula
+        protium = _protium(formula)
+        plain = _analyse(protium)
+        explanation = plain.explanation.replace(protium.text(), text, 1)
+        return ChargeBalance(plain.balanced, plain.kind, plain.charges, explanation)
     counts = formula.counts
     if len(counts) == 1 and len(formula.parts) == 1 and not formula.charge:
         return ChargeBalance(
@@ -556,6 +669,9 @@ def _analyse(formula: Formula) -> ChargeBalance:
         if reading.kind == UNBALANCED:
             where = f"the part '{render_items(part.items)}' of {text}" if len(formula.parts) > 1 else text
             return ChargeBalance(False, UNBALANCED, (), f"{where} is not balanced: {reading.why}")
+        if reading.kind == ORGANIC:
+            where = f" (in {text})" if len(formula.parts) > 1 else ""
+            return ChargeBalance(False, ORGANIC, (), reading.why + where)
         if part.multiplier is None:
             factor: Number = 1
         else:
@@ -596,6 +712,21 @@ def _analyse(formula: Formula) -> ChargeBalance:
     if molecular:
         explanation += "; with the molecular part " + "; ".join(molecular)
     return ChargeBalance(True, IONIC, merged, explanation)
+
+
+_ISOTOPES = frozenset({"D", "T"})
+
+
+def _protium_item(item: Item) -> Item:
+    if isinstance(item, Atom):
+        return Atom("H", item.count) if item.symbol in _ISOTOPES else item
+    return Group(tuple(_protium_item(i) for i in item.items), item.count, item.bracket)
+
+
+def _protium(formula: Formula) -> Formula:
+    """The formula with D and T written as H."""
+    parts = tuple(Part(tuple(_protium_item(i) for i in p.items), p.multiplier) for p in formula.parts)
+    return Formula(parts, formula.charge)
 
 
 def charge_balance(formula: str | Formula) -> ChargeBalance:
@@ -842,6 +973,7 @@ def cations_first(part: Part, target: int = 0) -> Part:
 
 
 __all__ = [
+    "ORGANIC",
     "Atom",
     "ChargeBalance",
     "Share",

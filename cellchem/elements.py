@@ -20,6 +20,7 @@ from .tables import read_table, split_names, table_header
 STANDARD = "standard"
 CONVENTIONAL = "conventional"
 MASS_NUMBER = "mass number"
+NUCLIDE = "nuclide"
 
 
 @dataclass(frozen=True, slots=True)
@@ -36,7 +37,8 @@ class Element:
         atomic_weight: the value used for molar masses, g/mol (see module doc).
         uncertainty: stated uncertainty of a single-valued standard atomic weight.
         interval: (low, high) for elements whose standard atomic weight is an interval.
-        weight_kind: ``"standard"``, ``"conventional"`` or ``"mass number"``.
+        weight_kind: ``"standard"``, ``"conventional"``, ``"mass number"``, or
+            ``"nuclide"`` for the hydrogen isotopes D and T (their atomic mass).
         electronegativity: Pauling electronegativity, or None.
     """
 
@@ -104,8 +106,41 @@ def all_elements() -> tuple[Element, ...]:
 
 
 @cache
+def nuclides() -> tuple[Element, ...]:
+    """D (deuterium) and T (tritium): hydrogen isotopes with symbols of their
+    own (``data/nuclides.csv``), read in formulas and weighed with their
+    atomic mass; not in ``all_elements()`` nor in ``symbols()``."""
+    out = []
+    for row in read_table("nuclides.csv"):
+        parent = _element_from_row(
+            next(r for r in read_table("elements.csv") if r["symbol"] == row["element"])
+        )
+        out.append(
+            Element(
+                z=parent.z,
+                symbol=row["symbol"],
+                name=row["name"],
+                variants=(),
+                group=parent.group,
+                period=parent.period,
+                atomic_weight=float(row["atomic_mass"]),
+                uncertainty=None,
+                interval=None,
+                weight_kind=NUCLIDE,
+                electronegativity=parent.electronegativity,
+            )
+        )
+    return tuple(out)
+
+
+@cache
 def _by_symbol() -> dict[str, Element]:
     return {e.symbol: e for e in all_elements()}
+
+
+@cache
+def _with_nuclides() -> dict[str, Element]:
+    return {**_by_symbol(), **{n.symbol: n for n in nuclides()}}
 
 
 @cache
@@ -119,13 +154,13 @@ def _by_name() -> dict[str, Element]:
 
 
 def symbols() -> frozenset[str]:
-    """All element symbols."""
+    """All element symbols (not the nuclide symbols D and T)."""
     return frozenset(_by_symbol())
 
 
 def is_symbol(text: str) -> bool:
-    """True if ``text`` is an element symbol in its exact case."""
-    return text in _by_symbol()
+    """True if ``text`` is an element symbol, or the nuclide symbol D or T, in its exact case."""
+    return text in _with_nuclides()
 
 
 def element(key: str | int) -> Element:
@@ -157,7 +192,7 @@ def element(key: str | int) -> Element:
             text=str(key),
         )
     text = str(key).strip()
-    found = _by_symbol().get(text) or _by_name().get(text.casefold())
+    found = _with_nuclides().get(text) or _by_name().get(text.casefold())
     if found is not None:
         return found
     cased = _by_symbol().get(text.capitalize())

@@ -189,7 +189,7 @@ def _fill_line(
     elif not _blank(name):
         try:
             compound = parse_formula(read_name(str(name)).formula)
-        except CellchemError:
+        except Exception:  # a refusal, or a failure of cellchem's own: nothing is filled
             compound = None
     if compound is None:
         values = tuple(verdict if c.key == "verdict" else None for c in columns)
@@ -224,6 +224,6 @@ def _value(c: FillColumn, f: Formula, concentration: object, unit: object, verdi
             return float(ionic_strength([(f, conc)]))
         if c.key == "verdict":
             return verdict
-    except CellchemError:
+    except Exception:  # a refusal, or a failure of cellchem's own: the cell stays empty
         return None
     return None

@@ -814,8 +814,28 @@ def _fast_parse(text: str) -> Formula | None:
 def _parse_formula(text: str) -> Formula:
     fast = _fast_parse(text)
     if fast is not None:
-        return fast
-    return _parse_with_grammar(text)
+        return _bracketed_water(fast)
+    return _bracketed_water(_parse_with_grammar(text))
+
+
+_WATER_ITEMS = (Atom("H", 2), Atom("O", 1))
+
+
+def _bracketed_water(f: Formula) -> Formula:
+    """Water of crystallisation written in brackets at the end of the formula,
+    'CuSO4(H2O)5', is the hydrate part CuSO4·5H2O (common practice)."""
+    first = f.parts[0]
+    last = first.items[-1]
+    if (
+        len(first.items) < 2
+        or not isinstance(last, Group)
+        or last.bracket != "("
+        or last.items != _WATER_ITEMS
+        or any(p.is_water for p in f.parts[1:])
+    ):
+        return f
+    parts = (Part(first.items[:-1], first.multiplier), Part(_WATER_ITEMS, last.count), *f.parts[1:])
+    return Formula(parts, f.charge, f.source)
 
 
 def _parse_with_grammar(text: str) -> Formula:
@@ -831,6 +851,13 @@ def _parse_with_grammar(text: str) -> Formula:
     normal_stripped = normal.strip()
     where = where[lead : lead + len(normal_stripped)]
     normal = normal_stripped
+    spaced = _SPACED_WATER.search(normal)
+    if spaced and any(d in normal[: spaced.start()] for d in HYDRATE_DOTS):
+        spaced = None  # a hydrate dot is written already: the space is not one
+    if spaced:
+        # 'CuSO4 5H2O', as pasted: the space stands for the hydrate dot
+        normal = normal[: spaced.start()] + CANONICAL_DOT + normal[spaced.end() :]
+        where = where[: spaced.start() + 1] + where[spaced.end() :]
     b = _Builder(text, normal, where)
     if not normal:
         raise FormulaError("no formula given (the text is empty)", text=text)
@@ -894,6 +921,9 @@ def _parse_with_grammar(text: str) -> Formula:
     if charge.attached_sign:
         formula = _resolve_attached_charge(formula, text)
     return formula
+
+
+_SPACED_WATER = re.compile(r"(?<=[A-Za-z0-9)\]])\s+(?=(?:\d+(?:\.\d+)?|½|[xn])?\s*H2O\s*$)")
 
 
 def _check_decimal_count(text: str, normal: str, b: _Builder, dot: tuple, part: Part) -> None:

@@ -40,7 +40,41 @@ from .tables import read_table, split_names
 
 
 class NameError_(CellchemError):
-    """A name that cannot be read, or a formula that cannot be named."""
+    """A name that cannot be read, or a formula that cannot be named.
+
+    Attributes (beyond CellchemError's):
+        reason: why a name was refused, for programs that weigh the refusal
+            (the audit): ``'open-charge'`` (a metal's charge is left open; the
+            choices are the charges it may have), ``'ratio'`` (the name names
+            its ions but not their ratio), ``'may-be'`` (the name is used for
+            several compounds; the choices are those a cited table knows),
+            ``'unknown'`` (no reading), or ``''``.
+        ions: for ``'ratio'``, the ions the name names, as (formula, charge).
+    """
+
+    def __init__(
+        self,
+        message: str,
+        *,
+        text: str | None = None,
+        position: int | None = None,
+        choices: tuple[str, ...] = (),
+        reason: str = "",
+        ions: tuple[tuple[str, int], ...] = (),
+    ) -> None:
+        super().__init__(message, text=text, position=position, choices=choices)
+        self.reason = reason
+        self.ions = tuple(ions)
+
+    def __reduce__(self):
+        return (
+            _rebuild_name_error,
+            (type(self), self.message, self.text, self.position, self.choices, self.reason, self.ions),
+        )
+
+
+def _rebuild_name_error(cls, message, text, position, choices, reason, ions):
+    return cls(message, text=text, position=position, choices=choices, reason=reason, ions=ions)
 
 
 @dataclass(frozen=True)
@@ -253,14 +287,17 @@ _DASHES = "‐‑‒–−"
 
 
 def _fold(text: str) -> str:
-    """Case-fold, NFKC, plain quotes and hyphens, single spaces, IUPAC spelling."""
-    s = unicodedata.normalize("NFKC", text.replace("½", " 0.5")).translate(_QUOTES)
+    """Case-fold, NFKC, plain quotes and hyphens, single spaces, IUPAC spelling;
+    a multiplicative prefix joined to its word ('di-Sodium' is 'disodium')."""
+    s = re.sub(r"(\d)\s*½", r"\1.5", text).replace("½", " 0.5")
+    s = unicodedata.normalize("NFKC", s).translate(_QUOTES)
     for d in _DASHES:
         s = s.replace(d, "-")
     s = s.replace("\u00a0", " ").casefold()
     s = re.sub(r"sulph", "sulf", s)
     s = re.sub(r"\baluminum", "aluminium", s)
     s = re.sub(r"\bcesium", "caesium", s)
+    s = re.sub(r"\b(mono|di|tri|tetra|penta|hexa)-(?=[a-z]{3})", r"\1", s)
     s = re.sub(r"\s+", " ", s).strip()
     return s
 
@@ -312,12 +349,53 @@ _CONCENTRATION = re.compile(
     r"ppm|%\s*\(?\s*(?:w/v|w/w|v/v|m/v|m/m|wt)\s*\)?|m(?![\w])|mm(?![\w])|n(?![\w]))"
 )
 _PURITY = re.compile(
-    r"(?:(?:min\.?|minimum|assay|purity|approx\.?|ca\.?)\s*)?(?:≥|>=|>|≤|<=|<|~)?\s*\d+(?:[.,]\d+)?\s*%(?:\s*min\.?)?"
+    r"(?:(?:min\.?|minimum|assay|purity|approx\.?|ca\.?)\s*)?(?:≥|>=|>|≤|<=|<|~)?\s*\d+(?:[.,]\d+)?\+?\s*%(?:\s*min\.?)?"
+)
+# Strengths as suppliers print them (common practice): a range of per cent
+# ('28-30%', '95-97 %', '10-15% available chlorine'), a volume strength of
+# hydrogen peroxide ('100 vol', '(20 volumes)'), a specific gravity ('0.88',
+# '.880', 's.g. 1.84'); the words that may follow a strength are in
+# qualifiers.csv (kind 'strength').
+_RANGE = re.compile(
+    r"(?<![\w.])\d+(?:[.,]\d+)?\s*%?\s*(?:-|to)\s*\d+(?:[.,]\d+)?\s*%(?:\s*\(?\s*(?:w/w|w/v|v/v)\s*\)?)?"
+)
+_VOLUME_STRENGTH = re.compile(r"(?<![\w.])\d+\s*(?:vol\.?|volumes?)(?![\w])")
+_GRAVITY = re.compile(
+    r"(?:(?<![\w.])(?:sp\.?\s*gr\.?|s\.\s*g\.?|sg|d|density)\s*=?\s*\d?\.\d{2,3}(?![\w.]))"
+    r"|(?:(?<![\w.,%])(?:\d\.\d{2,3}|\.\d{3})\s*$)"
 )
 _HYDRATE_NUMBER = re.compile(r"(?<![\w])(\d+(?:[.,]\d+)?|x|n)\s*-?\s*hydrate(?![\w])")
 _HYDRATE_FORMULA = re.compile(
     r"(?:[·•∙⋅*.]\s*|(?<![\w])(?=\d|x\s*h2o|n\s*h2o))(\d+(?:[.,]\d+)?|x|n|½)?\s*h2o(?![\w])"
 )
+# '-5-water', '5-water' (the British Pharmacopoeia's and older catalogues' form)
+# and 'hemi(pentahydrate)' (common practice)
+_HYDRATE_WATER = re.compile(r"(?:(?<=[a-z)])-|(?<![\w-]))(\d+(?:[.,]\d+)?)\s*-?\s*water(?![\w])")
+_HYDRATE_HEMI = re.compile(r"(?<![\w])hemi\s*\(\s*([a-z]+hydrate)\s*\)")
+# A grade phrase from 'for' to the next comma ('for molecular biology', 'for
+# HPLC'), and impurity statements ('low in lead', 'arsenic free', 'iron-free'):
+# none of them is part of a compound name (common practice).
+_FOR_PHRASE = re.compile(r"(?<![\w])for [a-z0-9 .\-/]+?(?=,|;|\)|$)")
+_IMPURITY = re.compile(r"(?<![\w])(?:low in|poor in) ([a-z]+)(?![\w])|(?<![\w])([a-z]+)[ -]free(?![\w])")
+
+
+def _take_impurities(s: str, found: list[Qualifier]) -> tuple[str, bool]:
+    """Set aside 'low in lead', 'arsenic free', 'chloride-free' (the word must
+    name an element or an ion, so 'EDTA free acid' is left alone); returns the
+    rest and whether 'water-free' said the compound is anhydrous."""
+    dry = False
+
+    def keep(m: re.Match[str]) -> str:
+        nonlocal dry
+        word = m.group(1) or m.group(2)
+        if word == "water":
+            dry = True
+        elif word not in _element_names() and word not in _ion_names() and word not in ("metal", "metals"):
+            return m.group(0)
+        found.append(Qualifier("hydrate" if word == "water" else "grade", m.group(0)))
+        return " "
+
+    return _IMPURITY.sub(keep, s), dry
 
 
 def _as_written(q: Qualifier, text: str) -> Qualifier:
@@ -349,14 +427,27 @@ def _set_aside(s: str) -> tuple[str, list[Qualifier], Number | str | None]:
     qualifiers, and the water: a count, None for unknown, '' if not stated."""
     found: list[Qualifier] = []
     water: Number | str | None = ""
+    s = _take(_RANGE, s, "strength", found)
+    s = _take(_VOLUME_STRENGTH, s, "strength", found)
     s = _take(_CONCENTRATION, s, "concentration", found)
     s = _take(_PURITY, s, "purity", found)
+    s = _take(_FOR_PHRASE, s, "grade", found)
+    s, dry = _take_impurities(s, found)
+    if dry:
+        water = 0
 
-    m = _HYDRATE_FORMULA.search(s)
-    if m:
-        water = _number(m.group(1)) if m.group(1) else 1
-        found.append(Qualifier("hydrate", m.group(0).strip()))
+    m = _HYDRATE_HEMI.search(s)
+    if m and m.group(1) in _hydrate_words() and _hydrate_words()[m.group(1)] is not None:
+        water = _hydrate_words()[m.group(1)] / 2  # type: ignore[operator]
+        water = int(water) if water == int(water) else Fraction(water)  # type: ignore[arg-type]
+        found.append(Qualifier("hydrate", m.group(0)))
         s = s[: m.start()] + " " + s[m.end() :]
+    for pattern in (_HYDRATE_FORMULA, _HYDRATE_WATER):
+        m = pattern.search(s) if water == "" else None
+        if m:
+            water = _number(m.group(1)) if m.group(1) else 1
+            found.append(Qualifier("hydrate", m.group(0).strip(" -")))
+            s = s[: m.start()] + " " + s[m.end() :]
     m = _HYDRATE_NUMBER.search(s)
     if m:
         water = _number(m.group(1))
@@ -379,6 +470,7 @@ def _set_aside(s: str) -> tuple[str, list[Qualifier], Number | str | None]:
                     water = None
             found.append(Qualifier(kind, text))
             s = pattern.sub(" ", s)
+    s = _take(_GRAVITY, s.strip(" ,;"), "strength", found)
     for word, kind in (("monobasic", "basicity"), ("dibasic", "basicity"), ("tribasic", "basicity")):
         if re.search(rf"(?<![\w]){word}(?![\w])", s):
             found.append(Qualifier(kind, word))
@@ -468,12 +560,24 @@ def _lookup_piece(phrase: str) -> list[_Piece]:
     for ion, form in entries:
         role = "cation" if ion.charge > 0 else "anion"
         pieces.append(_Piece(role, ion, forms=(form,) if form else (), text=phrase))
+    group = _oxo_groups()[0].get(phrase)
+    if group is not None and not pieces:
+        pieces.append(_Piece("cation", group, forms=(f"oxo group '{phrase}'",), text=phrase))
     if not pieces:
         oxo = _oxoanion_by_state(phrase)
         if oxo is not None:
             pieces.append(_Piece("anion", oxo[0], forms=oxo[1], text=phrase))
     if not pieces:
         complex_ion = _read_complex(phrase)
+        if complex_ion is None and " " in phrase and len(phrase.split()) <= 3:
+            # 'hexammine cobalt(III)': the ligands written apart from the metal
+            head = "".join(phrase.split()[:-1])
+            try:
+                _ligand_terms(head)
+            except ValueError:
+                pass
+            else:
+                complex_ion = _read_complex(phrase.replace(" ", ""))
         if complex_ion is not None:
             ion, form = complex_ion
             pieces.append(_Piece("cation" if ion.charge > 0 else "anion", ion, forms=form, text=phrase))
@@ -492,23 +596,70 @@ def _lookup_piece(phrase: str) -> list[_Piece]:
     return pieces
 
 
+def _central_state(ion: Ion) -> tuple[str, int] | None:
+    """The central atom of an anion (its metal, else its one element besides O
+    and H) and that atom's oxidation state, or None."""
+    from .charge import oxidation_state
+
+    symbols_ = list(ion.formula.counts)
+    metals = [x for x in symbols_ if element(x).is_metal]
+    others = [x for x in symbols_ if x not in ("O", "H")]
+    centre = metals[0] if len(metals) == 1 else (others[0] if len(others) == 1 else None)
+    if centre is None:
+        return None
+    try:
+        state = oxidation_state(Formula(ion.formula.parts, ion.charge), centre)
+    except CellchemError:
+        return None
+    return (centre, state) if isinstance(state, int) else None
+
+
+@cache
+def _oxo_groups() -> tuple[dict[str, Ion], dict[tuple, str]]:
+    """data/oxo_groups.csv: name -> the group as an Ion-like value (its valence
+    as its charge, for counting only), and the counts of each group's halides
+    (SOCl2, POCl3) -> the name stores write ('thionyl chloride')."""
+    by_name: dict[str, Ion] = {}
+    by_key: dict[tuple, str] = {}
+    halides = [i for i in catalog() if i.charge == -1 and i.is_monatomic and i.text in ("F", "Cl", "Br", "I")]
+    for row in read_table("oxo_groups.csv"):
+        group = Ion(parse_formula(row["formula"]), int(row["valence"]), row["name"], "", (), row["source"])
+        _index(by_name, row, group)
+        for halide in halides:
+            counts = dict(group.formula.counts)
+            counts[halide.text] = counts.get(halide.text, 0) + group.charge
+            by_key.setdefault(counts_key(counts), f"{row['name']} {halide.name}")
+    return by_name, by_key
+
+
 @lru_cache(maxsize=4096)
 def _oxoanion_by_state(phrase: str) -> tuple[Ion, tuple[str, ...]] | None:
-    """An oxoanion named by its central atom's oxidation state, as schools and
-    stores write it: manganate(VII) is MnO4-, sulfate(IV) is SO3 2-,
-    chlorate(I) is ClO- (IUPAC 2005 IR-5.4.2.2 gives the oxidation number in
-    Roman numerals; the use with -ate names is common practice)."""
-    m = re.fullmatch(r"([a-z]+ate)\(([ivx]+)\)", phrase)
+    """An anion named with its central atom's oxidation state. A known name
+    with a Stock number that agrees with it is that ion (ferricyanide(III),
+    hexafluoroaluminate(III), sulfate(VI)); one that does not agree is never
+    read past its words. An oxoanion's '-ate' stem with another oxidation
+    state names the oxoanion of that state, as schools and stores write it:
+    manganate(VII) is MnO4-, sulfate(IV) is SO3 2-, chlorate(I) is ClO-
+    (IUPAC 2005 IR-5.4.2.2 gives the oxidation number in Roman numerals; the
+    use with -ate names is common practice)."""
+    m = re.fullmatch(r"([a-z]+)\(([ivx]+)\)", phrase)
     if not m or m.group(2) not in _ROMAN_VALUES:
         return None
     base, state = m.group(1), _ROMAN_VALUES[m.group(2)]
-    stem_symbol = None
     named = [ion for ion, _ in _ion_names().get(base, []) if ion.charge < 0]
+    for ion in named:
+        central = _central_state(ion)
+        if central is not None and central[1] == state:
+            return ion, (f"Stock number after '{base}'",)
+    plain_oxo = all("O" in i.formula.counts and len(set(i.formula.counts) - {"O"}) == 1 for i in named)
+    if not base.endswith("ate") or not plain_oxo:
+        return None  # only a plain oxoanion stem names another oxidation state
+    stem_symbol = None
     _, back = _ate_names()
     stem = re.sub(r"^(?:di|tri|tetra|per|hypo)", "", base)
     stem_symbol = back.get(stem) or back.get(base)
     if stem_symbol is None and named:
-        stem_symbol = next((s for s in named[0].formula.counts if s != "O"), None)
+        stem_symbol = next((x for x in named[0].formula.counts if x != "O"), None)
     if stem_symbol is None:
         return None
     from .charge import rule_states
@@ -666,19 +817,25 @@ def _ligand_terms_cached(text: str) -> tuple[tuple[str, str], ...]:
             return ()
         options = []
         for p in ["", *prefixes]:
-            if not text.startswith(p, i):
-                continue
-            j = i + len(p)
-            paren = text.startswith("(", j)
-            k = j + 1 if paren else j
-            for lig in ligands:
-                if text.startswith(lig, k):
-                    end = k + len(lig)
-                    if paren:
-                        if not text.startswith(")", end):
-                            continue
-                        end += 1
-                    options.append(((p, lig), end))
+            # 'hexammine', 'tetrammine', 'hexaquo': the prefix's last vowel dropped
+            # before a ligand that starts with one, as the trade writes them
+            written = [p, p[:-1]] if p.endswith("a") else [p]
+            for w in written:
+                if not text.startswith(w, i):
+                    continue
+                j = i + len(w)
+                paren = text.startswith("(", j)
+                k = j + 1 if paren else j
+                for lig in ligands:
+                    if w != p and (paren or not lig.startswith("a")):
+                        continue
+                    if text.startswith(lig, k):
+                        end = k + len(lig)
+                        if paren:
+                            if not text.startswith(")", end):
+                                continue
+                            end += 1
+                        options.append(((p, lig), end))
         for term, end in options:
             rest = walk(end)
             if rest is not None:
@@ -871,14 +1028,219 @@ def read_name(name: str) -> NameReading:
 def _read_name(name: str) -> NameReading:
     text = name.strip()
     forms = _spelling_forms(text)
-    folded = _fold(text)
+    folded, synonyms = _bracketed_names(_fold(text))
     folded, stock_forms = _stock(folded)
     forms.extend(stock_forms)
     rest, qualifiers, water = _set_aside(folded)
-    qualifiers = [_as_written(q, text) for q in qualifiers]
+    qualifiers = [_as_written(q, text) for q in qualifiers] + [Qualifier("synonym", n) for n, _ in synonyms]
     if not rest:
         raise _unknown(text, "only qualifiers were found (" + ", ".join(q.text for q in qualifiers) + ")")
+    try:
+        reading = _read_rest(text, folded, rest, qualifiers, water, forms)
+    except NameError_ as exc:
+        chosen = _chosen_by_synonym(text, exc, synonyms)
+        if chosen is None:
+            raise
+        reading = _whole_reading(
+            text, rest, "salt", chosen, water, qualifiers, [*forms, "the name in brackets"]
+        )
+        reading = _with_kind(reading)
+    reading = _agree_with_synonyms(text, reading, synonyms)
+    _check_colours(text, reading)
+    if water == "" and any(q.kind == "form" and q.text.casefold() in _CRYSTAL_WORDS for q in qualifiers):
+        reading = _crystals(reading)
+    return reading
 
+
+# ---------------------------------------------------------------------------
+# Words around the compound: a name in brackets, colours, 'acid, X salt'
+# ---------------------------------------------------------------------------
+
+
+def _bracketed_names(folded: str) -> tuple[str, list[tuple[str, NameReading]]]:
+    """Set aside a name written in brackets after another ('magnesium sulfate
+    heptahydrate (Epsom salt)', 'sodium tetraborate (borax)') when it reads as
+    a compound on its own; brackets that do not read stay in the text."""
+    found: list[tuple[str, NameReading]] = []
+
+    def aside(m: re.Match[str]) -> str:
+        inner = m.group(1).strip()
+        if not re.search(r"[a-z]{3}", inner) or re.fullmatch(r"[ivx,\s]+|[\d\s+-]+", inner):
+            return m.group(0)
+        try:
+            reading = _read_name(inner)
+        except CellchemError:
+            return m.group(0)
+        found.append((inner, reading))
+        return " "
+
+    out = re.sub(r"(?<=\s)\(([^()]*(?:\([ivx,]+\)[^()]*)*)\)(?=\s|,|$)", aside, folded)
+    return out, found
+
+
+def _same_dry(a: Formula, b: Formula) -> bool:
+    return counts_key(a.anhydrous().counts) == counts_key(b.anhydrous().counts)
+
+
+def _chosen_by_synonym(text: str, exc: NameError_, synonyms: list[tuple[str, NameReading]]) -> Formula | None:
+    """A refusal that listed candidates, settled by the name in brackets
+    ('sodium borate (borax)')."""
+    if not synonyms or not exc.choices:
+        return None
+    picked = {
+        c for c in exc.choices for _, r in synonyms if _same_dry(parse_formula(c), parse_formula(r.formula))
+    }
+    if len(picked) != 1:
+        return None
+    wet = [parse_formula(r.formula) for _, r in synonyms]
+    return (
+        wet[0] if _same_dry(wet[0], parse_formula(next(iter(picked)))) else parse_formula(next(iter(picked)))
+    )
+
+
+def _with_kind(reading: NameReading) -> NameReading:
+    kind = _kind_of(parse_formula(reading.formula).anhydrous())
+    return NameReading(
+        reading.text,
+        reading.compound,
+        kind,
+        reading.formula,
+        reading.cations,
+        reading.anions,
+        reading.elements,
+        reading.water,
+        reading.qualifiers,
+        reading.forms,
+    )
+
+
+def _agree_with_synonyms(
+    text: str, reading: NameReading, synonyms: list[tuple[str, NameReading]]
+) -> NameReading:
+    """The name in brackets must name the same compound; where the name before
+    it says nothing of water and the one in brackets does (borax is the
+    decahydrate), the water is the bracketed name's."""
+    f = parse_formula(reading.formula)
+    for inner, other in synonyms:
+        g = parse_formula(other.formula)
+        if not _same_dry(f, g) and not same_substance(f.anhydrous(), g.anhydrous()):
+            raise NameError_(
+                f"'{text}' names two compounds: the name reads as {f.text()}, the name in brackets"
+                f" '{inner}' as {g.text()}; write one name",
+                text=text,
+                choices=(f.text(), g.text()),
+                reason="may-be",
+            )
+        stated = any(q.kind == "hydrate" for q in reading.qualifiers)
+        if f.water != g.water:
+            if stated and other.water != 0 and any(q.kind == "hydrate" for q in other.qualifiers):
+                raise NameError_(
+                    f"'{text}' names two hydrates: the name reads as {f.text()}, the name in brackets"
+                    f" '{inner}' as {g.text()}",
+                    text=text,
+                    choices=(f.text(), g.text()),
+                    reason="may-be",
+                )
+            if not stated:
+                wet = f.with_water(g.water) if g.water else f  # type: ignore[arg-type]
+                cations, anions, elements_ = _components_of(wet)
+                reading = NameReading(
+                    reading.text,
+                    reading.compound,
+                    reading.kind,
+                    wet.text(),
+                    cations,
+                    anions,
+                    elements_,
+                    wet.water,
+                    reading.qualifiers,
+                    (*reading.forms, f"water from the name in brackets '{inner}'"),
+                )
+                f = wet
+    return reading
+
+
+@cache
+def _allotropes() -> frozenset[tuple[str, str]]:
+    return frozenset((row["symbol"], row["word"]) for row in read_table("allotropes.csv"))
+
+
+def _check_colours(text: str, reading: NameReading) -> None:
+    """A colour word before an element name is read only where it names a form
+    of the element (red phosphorus): 'white arsenic' is arsenic trioxide."""
+    if reading.kind != "element":
+        return
+    symbol = reading.elements[0].formula if reading.elements else ""
+    for q in reading.qualifiers:
+        if q.kind == "colour" and (symbol, q.text.casefold()) not in _allotropes():
+            raise NameError_(
+                f"'{text}' is not read: '{q.text}' before an element name may name a compound of it"
+                f" (white arsenic is arsenic trioxide), and no form of {reading.compound} is called"
+                f" '{q.text}'; write the formula or the compound's name",
+                text=text,
+                reason="unknown",
+            )
+
+
+_SALT = re.compile(
+    r"^(?P<acid>.+?)(?:,\s*|\s+)(?P<cation>(?:mono|di|tri|tetra)?[a-z()]+(?:\s+[a-z()]+)?)\s+salt$"
+)
+
+
+def _acid_salt_inversion(text: str, rest: str) -> tuple[str, str] | None:
+    """'acetic acid, sodium salt', 'phosphoric acid, disodium salt', 'EDTA
+    disodium salt' (catalogue style): the cation's name, then the acid's
+    anion. A polyprotic acid's salt with no count on the cation ('citric acid,
+    sodium salt') does not say how many hydrogens are replaced: refused."""
+    m = _SALT.match(rest.replace(" ,", ","))
+    if not m:
+        return None
+    acid, cation = m.group("acid").strip(" ,"), m.group("cation").strip()
+    anion: Ion | None = None
+    formula = _acids()[0].get(acid)
+    if formula is not None:
+        anion = next((row for row in _acid_anions() if row[0] == acid), (acid, None))[1]
+    else:
+        named = [ion for ion, _ in _ion_names().get(acid, []) if ion.charge < 0]
+        anion = named[0] if len(named) == 1 else None
+    if anion is None:
+        return None
+    counted = re.match(r"(mono|di|tri|tetra)(?=[a-z])", cation)
+    if not counted and anion.charge < -1:
+        bases = [i for i in (_protonated(anion, k) for k in range(1, -anion.charge + 1)) if i is not None]
+        raise NameError_(
+            f"'{text}' does not say how many of the {-anion.charge} acid hydrogens the {cation} replaces;"
+            f" write mono-, di- or tri{cation} salt, or the formula",
+            text=text,
+            choices=tuple(i.name for i in bases),
+            reason="ratio",
+        )
+    return f"{cation} {anion.name}", "catalogue form 'acid, cation salt'"
+
+
+@cache
+def _acid_anions() -> tuple[tuple[str, Ion | None], ...]:
+    """(folded acid name, its anion) for every name of acids.csv."""
+    out = []
+    for row in read_table("acids.csv"):
+        if not row.get("anion"):
+            continue
+        counts = parse_formula(row["anion"]).counts
+        acid_h = parse_formula(row["formula"]).counts.get("H", 0) - counts.get("H", 0)
+        ion = lookup(counts, -int(acid_h)) if acid_h else None
+        for name in (row["name"], *split_names(row.get("other_names"))):
+            out.append((_fold(name), ion))
+    return tuple(out)
+
+
+def _read_rest(
+    text: str,
+    folded: str,
+    rest: str,
+    qualifiers: list[Qualifier],
+    water: Number | str | None,
+    forms: list[str],
+) -> NameReading:
     # whole-name tables (trivial names, established names, acids): first with
     # only numbers set aside ('ammonia solution 35%', 'laughing gas'), then
     # with every qualifier set aside ('caustic soda pellets')
@@ -890,7 +1252,11 @@ def _read_name(name: str) -> NameReading:
 
     if "—" in rest:
         return _read_addition(text, rest, qualifiers, forms)
-    chunks = [c.strip() for c in re.split(r",(?![^()]*\))", rest) if c.strip()]
+    salt = _acid_salt_inversion(text, rest)
+    if salt is not None:
+        rest = salt[0]
+        forms = [*forms, salt[1]]
+    chunks = [c.strip() for c in re.split(r"(?<!\d),(?![^()]*\))|,(?!\d)(?![^()]*\))", rest) if c.strip()]
     errors: list[CellchemError] = []
     built: list[NameReading] = []
     sized: list[tuple[NameReading, int]] = []
@@ -920,12 +1286,28 @@ def _read_name(name: str) -> NameReading:
     if len(unique) > 1:
         listing = ", ".join(f"{f}" for f in unique)
         raise NameError_(
-            f"'{text}' can be read more than one way: {listing}", text=text, choices=tuple(unique)
+            f"'{text}' can be read more than one way: {listing}",
+            text=text,
+            choices=tuple(unique),
+            reason="may-be",
         )
-    first = errors[0]
+    first = min(errors, key=_error_rank)
     if f"'{text}'" not in str(first):
-        raise NameError_(f"'{text}' cannot be read: {first}", text=text, choices=first.choices) from first
+        raise NameError_(
+            f"'{text}' cannot be read: {first}",
+            text=text,
+            choices=first.choices,
+            reason=getattr(first, "reason", ""),
+            ions=getattr(first, "ions", ()),
+        ) from first
     raise first
+
+
+def _error_rank(exc: CellchemError) -> int:
+    """Which refusal to report when several readings fail: the one that says most."""
+    order = ("may-be", "ratio", "open-charge", "basicity", "")
+    reason = getattr(exc, "reason", "")
+    return order.index(reason) if reason in order else len(order)
 
 
 def _read_addition(text: str, rest: str, qualifiers: list[Qualifier], forms: list[str]) -> NameReading:
@@ -981,6 +1363,15 @@ def _plain(rest: str) -> str:
     return re.sub(r"\s+", " ", re.sub(r",(?![^()]*\))", " ", rest)).strip(" ,")
 
 
+def _kind_of(f: Formula) -> str:
+    balance = charge_balance(f)
+    kind = {"ionic": "salt", "molecular": "molecular", "element": "element"}.get(balance.kind, "salt")
+    cations = [c for c in balance.charges if c.charge > 0]
+    if kind == "salt" and cations and all(c.ion is not None and c.ion.text == "H" for c in cations):
+        kind = "acid"
+    return kind
+
+
 def _whole_lookup(
     text: str, plain: str, water: Number | str | None, qualifiers: list[Qualifier], forms: list[str]
 ) -> NameReading | None:
@@ -999,17 +1390,264 @@ def _whole_lookup(
         if kind == "acid" and balance.kind != "ionic":
             kind = ""
         if not kind:
-            kind = {"ionic": "salt", "molecular": "molecular", "element": "element"}.get(balance.kind, "salt")
-            cations = [c for c in balance.charges if c.charge > 0]
-            if kind == "salt" and cations and all(c.ion is not None and c.ion.text == "H" for c in cations):
-                kind = "acid"
+            kind = _kind_of(f)
         if kind == "trivial":
             f = _canonical(f)
         kept = [q for q in qualifiers if q.kind != "state" or q.text not in plain]
         if kind == "acid" or "solution" in plain:
             kept = [Qualifier("concentration", q.text) if q.kind == "purity" else q for q in kept]
         return _whole_reading(text, plain, kind, f, water, kept, forms + extra)
+    rows = _established()[0].get(plain)
+    if rows and not (any(q.kind == "basicity" for q in qualifiers) and all(st == MAY_BE for st, _ in rows)):
+        # ('sodium phosphate, dibasic': the basicity word, not the table, decides)
+        return _established_reading(text, plain, rows, water, qualifiers, forms)
     return None
+
+
+# ---------------------------------------------------------------------------
+# Established compounds, hydrates that exist, the charges stores stock
+# ---------------------------------------------------------------------------
+
+IS, ALSO, MAY_BE = "is", "also", "may be"
+
+
+@cache
+def _established() -> tuple[dict[str, list[tuple[str, str]]], dict[tuple, tuple[str, ...]]]:
+    """data/established_compounds.csv: folded name -> [(status, formula)], and
+    the anhydrous counts key of an 'is' formula -> the 'also' formulas printed
+    for the same substance (P4O10 beside P2O5)."""
+    by_name: dict[str, list[tuple[str, str]]] = {}
+    also: dict[str, list[str]] = {}
+    main: dict[str, str] = {}
+    for row in read_table("established_compounds.csv"):
+        entry = (row["status"], row["formula"])
+        for name in (row["name"], *split_names(row.get("other_names"))):
+            entries = by_name.setdefault(_fold(name), [])
+            if entry not in entries:
+                entries.append(entry)
+        if row["status"] == IS:
+            main[_fold(row["name"])] = row["formula"]
+        elif row["status"] == ALSO:
+            also.setdefault(_fold(row["name"]), []).append(row["formula"])
+    by_key: dict[tuple, tuple[str, ...]] = {}
+    for name, formula in main.items():
+        if name in also:
+            key = counts_key(parse_formula(formula).counts)
+            by_key[key] = tuple(also[name])
+    return by_name, by_key
+
+
+def same_substance(a: str | Formula, b: str | Formula) -> bool:
+    """True when two formulas are printed for one substance by a cited table
+    (P2O5 and P4O10, As2O3 and As4O6: data/established_compounds.csv), or
+    have the same element counts and water.
+
+    >>> same_substance("P2O5", "P4O10")
+    True
+    """
+    fa, fb = as_formula(a), as_formula(b)
+    if counts_key(fa.counts) == counts_key(fb.counts) and fa.water == fb.water:
+        return True
+    if fa.water != fb.water:
+        return False
+    by_key = _established()[1]
+    da, db = fa.anhydrous(), fb.anhydrous()
+    for x, y in ((da, db), (db, da)):
+        for other in by_key.get(counts_key(x.counts), ()):
+            if counts_key(parse_formula(other).counts) == counts_key(y.counts):
+                return True
+    return False
+
+
+@cache
+def _hydrates() -> dict[tuple, tuple[frozenset[Number], Number | None]]:
+    """data/hydrates.csv: anhydrous counts key -> (water counts that exist, the
+    hydrate a label means by 'crystals' or None)."""
+    table: dict[tuple, tuple[set[Number], list[Number]]] = {}
+    for row in read_table("hydrates.csv"):
+        key = counts_key(parse_formula(row["formula"]).counts)
+        n = _number(row["water"])
+        counts, crystals = table.setdefault(key, (set(), []))
+        counts.add(n)  # type: ignore[arg-type]
+        if row.get("sold_as") == "crystals":
+            crystals.append(n)  # type: ignore[arg-type]
+    return {k: (frozenset(v[0]), v[1][0] if v[1] else None) for k, v in table.items()}
+
+
+def known_hydrates(formula: str | Formula) -> frozenset[Number]:
+    """The numbers of water molecules of the hydrates of a compound that a cited
+    table knows (data/hydrates.csv), not counting 0; empty when it knows none.
+
+    >>> sorted(known_hydrates("CuSO4"))
+    [1, 5]
+    """
+    key = counts_key(as_formula(formula).anhydrous().counts)
+    return _hydrates().get(key, (frozenset(), None))[0]
+
+
+_CRYSTAL_WORDS = frozenset({"crystals", "crystal", "crystalline", "cryst.", "cryst"})
+
+
+def _crystals(reading: NameReading) -> NameReading:
+    """'crystals' on a label means the hydrate the compound is sold as when it
+    has one (copper sulfate crystals are CuSO4·5H2O, washing soda crystals
+    Na2CO3·10H2O); nothing when the table knows none."""
+    f = parse_formula(reading.formula)
+    if f.water:
+        return reading
+    crystals = _hydrates().get(counts_key(f.counts), (frozenset(), None))[1]
+    if crystals is None:
+        return reading
+    wet = f.with_water(crystals)
+    cations, anions, elements_ = _components_of(wet)
+    return NameReading(
+        reading.text,
+        reading.compound,
+        reading.kind,
+        wet.text(),
+        cations,
+        anions,
+        elements_,
+        wet.water,
+        reading.qualifiers,
+        (*reading.forms, f"'crystals' for the {_hydrate_suffix(crystals).strip()}"),
+    )
+
+
+@cache
+def _commerce_order() -> dict[str, tuple[int, ...]]:
+    """data/commerce_states.csv: symbol -> oxidation states, commonest in stores first."""
+    return {
+        row["symbol"]: tuple(int(x) for x in row["states"].split())
+        for row in read_table("commerce_states.csv")
+    }
+
+
+def _established_reading(
+    text: str,
+    plain: str,
+    rows: list[tuple[str, str]],
+    water: Number | str | None,
+    qualifiers: list[Qualifier],
+    forms: list[str],
+) -> NameReading:
+    """A name found in the established-compounds table: its 'is' formula, or
+    the one 'may be' formula that the stated hydrate selects, or a refusal
+    that lists the candidates."""
+    main = [f for status, f in rows if status == IS]
+    if main:
+        f = _canonical(parse_formula(main[0]))
+        return _whole_reading(
+            text, plain, _kind_of(f), f, water, qualifiers, [*forms, f"established compound '{plain}'"]
+        )
+    candidates = [parse_formula(f) for status, f in rows if status == MAY_BE]
+    if water not in ("", 0, None):
+        fitting = [c for c in candidates if water in known_hydrates(c)]
+        if len(fitting) == 1:
+            return _whole_reading(
+                text,
+                plain,
+                _kind_of(fitting[0]),
+                fitting[0],
+                water,
+                qualifiers,
+                [
+                    *forms,
+                    f"established compound '{plain}' (the {_hydrate_suffix(water).strip()} that exists)",
+                ],
+            )
+    wet = [c.with_water(water) if water not in ("", 0) else c for c in candidates]  # type: ignore[arg-type]
+    listing = " or ".join(c.text() for c in wet)
+    raise NameError_(
+        f"'{text}' names more than one compound in the trade: it may be {listing}; write the formula,"
+        " or a name that fixes it",
+        text=text,
+        choices=tuple(c.text() for c in wet),
+        reason="may-be",
+    )
+
+
+@cache
+def _by_ion_set() -> dict[frozenset[tuple[str, int]], tuple[str, ...]]:
+    """Established compounds (established_compounds.csv 'is' and 'may be' rows,
+    named_compounds.csv, trivial_names.csv) by the set of ions they hold, with
+    a coordination entity also counted as its metal ion and ligand anions, so
+    that a name which does not state the ratio of its ions ('ammonium iron(II)
+    sulfate', 'potassium ferric oxalate') finds the compounds the trade means."""
+    formulas: list[str] = [f for status, f in _established_rows() if status in (IS, MAY_BE)]
+    formulas += [row["formula"] for row in read_table("named_compounds.csv")]
+    formulas += [row["formula"] for row in read_table("trivial_names.csv")]
+    table: dict[frozenset[tuple[str, int]], list[str]] = {}
+    for text in formulas:
+        f = parse_formula(text).anhydrous()
+        if len(f.parts) > 1:
+            continue
+        for key in _ion_sets(f):
+            entries = table.setdefault(key, [])
+            canonical = _canonical(f).text()
+            if canonical not in entries:
+                entries.append(canonical)
+    return {k: tuple(v) for k, v in table.items()}
+
+
+def _established_rows() -> list[tuple[str, str]]:
+    return [(row["status"], row["formula"]) for row in read_table("established_compounds.csv")]
+
+
+def _ion_sets(f: Formula) -> list[frozenset[tuple[str, int]]]:
+    """The set of ions of an ionic formula, and (when it holds a coordination
+    entity whose ligands are all catalog anions) the set with the entity split
+    into its metal ion and ligand anions."""
+    balance = charge_balance(f)
+    if balance.kind != "ionic" or any(s.ion is None for s in balance.charges):
+        return []
+    direct = frozenset((s.ion.text, s.ion.charge) for s in balance.charges if s.ion is not None)
+    split: set[tuple[str, int]] = set()
+    for share in balance.charges:
+        ion = share.ion
+        assert ion is not None
+        inner = _split_entity(ion)
+        if inner is None:
+            split.add((ion.text, ion.charge))
+        else:
+            split |= inner
+    return [direct] if frozenset(split) == direct else [direct, frozenset(split)]
+
+
+def _split_entity(ion: Ion) -> set[tuple[str, int]] | None:
+    """A coordination entity [M(L)n] as its metal ion and ligand anions, or None."""
+    items = ion.formula.parts[0].items
+    if not ion.is_complex and not (
+        len(items) >= 2 and isinstance(items[0], Atom) and element(items[0].symbol).is_metal
+    ):
+        return None
+    if ion.is_complex:
+        group = items[0]
+        assert isinstance(group, Group)
+        items = group.items
+    metal = items[0]
+    if not isinstance(metal, Atom) or metal.count != 1 or not element(metal.symbol).is_metal:
+        return None
+    out: set[tuple[str, int]] = set()
+    ligand_charge = 0
+    for item in items[1:]:
+        inner = item.items if isinstance(item, Group) else (Atom(item.symbol, 1),)
+        n = item.count
+        counts = Formula((_part(inner),), 0).counts
+        anion = next(
+            (i for i in catalog() if i.charge < 0 and counts_key(i.formula.counts) == counts_key(counts)),
+            None,
+        )
+        if anion is None:
+            return None
+        out.add((anion.text, anion.charge))
+        ligand_charge += anion.charge * n
+    state = ion.charge - ligand_charge
+    cation = next((i for i in _monatomic(metal.symbol, +1) if i.charge == state), None)
+    if cation is None:
+        return None
+    out.add((cation.text, cation.charge))
+    return out
 
 
 def _chunk_orders(chunks: list[str]) -> list[list[str]]:
@@ -1086,9 +1724,22 @@ def _components_of(f: Formula) -> tuple[tuple[Component, ...], tuple[Component, 
     return tuple(cations), tuple(anions), tuple(elements_)
 
 
+def _metal_cations(symbol: str) -> list[Ion]:
+    """The catalog cations of one element, the charges stores stock most often
+    first (data/commerce_states.csv: copper(II) before copper(I))."""
+    ions = [i for i in catalog() if i.charge > 0 and tuple(i.formula.counts) == (symbol,)]
+    order = _commerce_order().get(symbol, ())
+
+    def rank(ion: Ion) -> tuple[int, int]:
+        state = ion.charge // int(next(iter(ion.formula.counts.values())))
+        return (order.index(state) if state in order else len(order), state)
+
+    return sorted(ions, key=rank)
+
+
 def _candidates(symbol: str, others: list[_Piece]) -> list[tuple[str, str]]:
     out = []
-    for ion in [i for i in catalog() if i.charge > 0 and tuple(i.formula.counts) == (symbol,)]:
+    for ion in _metal_cations(symbol):
         try:
             pieces = [_Piece("cation", ion), *others]
             formula = _formula_of(pieces)
@@ -1149,7 +1800,12 @@ def _build(
             raise _unknown(text, "it names no anion")
         raise _unknown(text, "it names cations but no anion")
     opens = [p for p in pieces if p.role == "open" and not p.stock]
-    if opens and not any(p.count for p in pieces):
+    counted = any(p.count for p in pieces)
+    established = None
+    if not counted and _species(pieces) > 2:
+        established = _ratio_from_table(text, pieces)
+        forms.append("established compound")
+    elif opens and not counted:
         others = [p for p in pieces if p is not opens[0]]
         candidates = _candidates(opens[0].symbol, others)
         name = element(opens[0].symbol).name
@@ -1159,8 +1815,9 @@ def _build(
             f" (give a Stock number such as '{candidates[0][0] if candidates else name + '(II)'}')",
             text=text,
             choices=tuple(fx for _, fx in candidates),
+            reason="open-charge",
         )
-    f = _formula_of(pieces)
+    f = established if established is not None else _formula_of(pieces)
     if water not in ("", 0, None):
         f = f.with_water(water)  # type: ignore[arg-type]
     elif water is None:
@@ -1183,24 +1840,155 @@ def _build(
     )
 
 
+def _species(pieces: list[_Piece]) -> int:
+    """How many kinds of ion a reading names (iron(II,III) counts two)."""
+    return sum(len(p.stock) if p.stock else 1 for p in pieces)
+
+
+def _ratio_from_table(text: str, pieces: list[_Piece]) -> Formula:
+    """A name of three or more ions without multiplicative prefixes does not
+    state their ratio ('ammonium iron(II) sulfate', 'sodium aluminium
+    fluoride'): the compound is the one the tables of established compounds
+    hold with exactly those ions, or the name is refused, listing the
+    candidates the tables know."""
+    options: list[list[tuple[str, int]]] = [[]]
+    for p in pieces:
+        if p.role == "element":
+            raise _unknown(text, "it names an element beside ions")
+        if p.role == "open" and p.stock:
+            ions = [(p.symbol, ox) for ox in p.stock]
+            options = [o + ions for o in options]
+        elif p.role == "open":
+            options = [o + [(ion.text, ion.charge)] for o in options for ion in _metal_cations(p.symbol)]
+        else:
+            assert p.ion is not None
+            options = [o + [(p.ion.text, p.ion.charge)] for o in options]
+    found: list[str] = []
+    for option in options:
+        for formula in _by_ion_set().get(frozenset(option), ()):
+            if formula not in found:
+                found.append(formula)
+    names = ", ".join(p.ion.name if p.ion else p.text for p in pieces)
+    if len(found) == 1:
+        return parse_formula(found[0])
+    if found:
+        raise NameError_(
+            f"'{text}' names {names} but not their ratio; the compounds of these ions in the trade are"
+            f" {' or '.join(found)}: write the formula, or the name of one of them",
+            text=text,
+            choices=tuple(found),
+            reason="may-be",
+        )
+    raise NameError_(
+        f"'{text}' names {names} but not their ratio, and no established compound of these ions is"
+        " known; write the formula, or give the counts with prefixes (such as 'aluminium potassium"
+        " bis(sulfate)')",
+        text=text,
+        reason="ratio",
+        ions=tuple(sorted({(i, c) for o in options for i, c in o})),
+    )
+
+
 def rest_name(pieces: list[_Piece]) -> str:
     return " ".join(p.ion.name if p.ion else element(p.symbol).name for p in pieces)
 
 
+_BASICITY = {"monobasic": 1, "dibasic": 2, "tribasic": 3, "tetrabasic": 4}
+
+
+def _acid_base(ion: Ion) -> tuple[Ion, int] | None:
+    """The fully deprotonated anion an anion belongs to and the acid hydrogens
+    it still holds (HPO4 2-: phosphate, 1), or None for an anion that is not
+    of a polyprotic acid (catalog ions; the acid hydrogens are written first)."""
+    if ion.charge >= 0:
+        return None
+    items = ion.formula.parts[0].items
+    held = 0
+    if len(items) > 1 and isinstance(items[0], Atom) and items[0].symbol == "H":
+        held = items[0].count
+        base_items = items[1:]
+        counts = Formula((_part(base_items),), 0).counts
+        base = lookup(counts, ion.charge - held)
+        if base is None:
+            return None
+    else:
+        base = ion
+    if base.charge > -2:
+        return None
+    return base, held
+
+
+def acid_families(f: Formula) -> tuple[frozenset, frozenset] | None:
+    """The cations of an ionic formula and the fully deprotonated anions of
+    its anions (HPO4 2- counts as phosphate): two salts with the same families
+    differ at most in the acid hydrogens their anions keep. None when the
+    formula is not ionic."""
+    balance = charge_balance(f)
+    if balance.kind != "ionic" or any(s.ion is None for s in balance.charges):
+        return None
+    cations = frozenset((s.ion.text, s.ion.charge) for s in balance.charges if s.charge > 0 and s.ion)
+    if ("H", 1) in cations:
+        return None
+    bases = set()
+    for share in balance.charges:
+        if share.charge < 0 and share.ion is not None:
+            found = _acid_base(share.ion)
+            base = found[0] if found else share.ion
+            bases.add((base.text, base.charge))
+    return cations, frozenset(bases)
+
+
+def _protonated(base: Ion, replaced: int) -> Ion | None:
+    """The anion of base's acid with ``replaced`` of its hydrogens replaced by
+    cations: phosphate with 2 replaced is hydrogen phosphate HPO4 2-."""
+    n = -base.charge
+    if not 0 < replaced <= n:
+        return None
+    if replaced == n:
+        return base
+    counts = dict(base.formula.counts)
+    counts["H"] = counts.get("H", 0) + (n - replaced)
+    return lookup(counts, -replaced)
+
+
 def _apply_basicity(text: str, pieces: list[_Piece], word: str) -> list[_Piece]:
-    """'sodium phosphate, dibasic' is Na2HPO4 (common practice): the word
-    says how many of the acid's hydrogens are replaced by the cation."""
+    """'sodium phosphate, dibasic' is Na2HPO4, 'sodium citrate tribasic'
+    Na3C6H5O7, 'potassium phthalate monobasic' KHC8H4O4 (common practice):
+    the word says how many of the acid's hydrogens the cations replace, for
+    the anion of any polyprotic acid."""
+    replaced = _BASICITY[word]
     out = []
+    done = False
     for p in pieces:
-        if p.role == "anion" and p.ion is not None and p.ion.text in ("PO4", "AsO4"):
-            base = p.ion.text
-            target = {"tribasic": base, "dibasic": "H" + base, "monobasic": "H2" + base}[word]
-            ion = next((i for i, k in ions_in(parse_formula(target).counts) if k == 1 and i.charge < 0), None)
-            if ion is None:
-                raise _unknown(text, f"no ion answers to '{word}' {p.ion.name}")
-            out.append(_Piece("anion", ion, forms=(f"'{word}' for {ion.name}",), text=p.text))
-        else:
+        found = _acid_base(p.ion) if p.role == "anion" and p.ion is not None else None
+        if found is None:
             out.append(p)
+            continue
+        base, held = found
+        ion = _protonated(base, replaced)
+        if ion is None:
+            raise NameError_(
+                f"'{text}': '{word}' does not fit {base.name}, whose acid has {-base.charge} acid hydrogens"
+                if replaced > -base.charge
+                else f"'{text}': no catalog ion is {base.name} with"
+                f" {-base.charge - replaced} of its acid hydrogens left ('{word}')",
+                text=text,
+                reason="basicity",
+            )
+        if held and ion != p.ion:
+            raise NameError_(
+                f"'{text}' says both {p.ion.name} and '{word}' ({ion.name}); they disagree",  # type: ignore[union-attr]
+                text=text,
+                reason="basicity",
+            )
+        out.append(_Piece("anion", ion, forms=(f"'{word}' for {ion.name}",), text=p.text))
+        done = True
+    if not done:
+        raise NameError_(
+            f"'{text}': '{word}' names no anion of a polyprotic acid in the name",
+            text=text,
+            reason="basicity",
+        )
     return out
 
 
@@ -1262,21 +2050,62 @@ def _formula_of(pieces: list[_Piece]) -> Formula:
         if open_index is not None:
             p = pieces[open_index]
             n = fixed[open_index]
-            if (-total) % n:
-                raise NameError_(f"the counts named leave {element(p.symbol).name} with a fractional charge")
-            ox = -total // n
+            ox = -total // n if not (-total) % n else None
             ion = next((i for i in _monatomic(p.symbol, +1) if i.charge == ox), None)
             if ion is None:
-                raise NameError_(
-                    f"the counts named need {element(p.symbol).name} as {ox:+d}, which is not a catalog ion"
-                )
+                # mixed valence: the counts fix the composition ('triiron
+                # tetraoxide' is Fe3O4) when the element's charges can make it up
+                split = _mixed_valence(p.symbol, n, -total)
+                if split is None:
+                    raise NameError_(
+                        f"the counts named need {n} {element(p.symbol).name} atoms to carry {-total:+d},"
+                        " which no mix of its catalog charges gives"
+                    )
+                rest = [(s[4], k) for j, (s, k) in enumerate(zip(species, fixed)) if j != open_index]
+                return _assemble(split + rest)  # type: ignore[arg-type]
             species[open_index] = ("cation", None, ox, n, ion)
         elif total != 0:
-            raise NameError_("the counts named do not balance the charges of the ions")
+            protonated = _protonate_by_counts(pieces, species, fixed, total)
+            if protonated is None:
+                raise NameError_("the counts named do not balance the charges of the ions")
+            species = protonated
         ions = [(s[4], n) for s, n in zip(species, fixed)]
     else:
         ions = _lowest_ratio([s[4] for s in species])  # type: ignore[misc]
     return _assemble(ions)
+
+
+def _mixed_valence(symbol: str, atoms: int, charge: int) -> list[tuple[Ion, int]] | None:
+    """One way for ``atoms`` atoms of an element to carry ``charge`` with its
+    catalog charges, or None."""
+    cations = [i for i in _monatomic(symbol, +1)]
+    for combo in product(range(atoms + 1), repeat=len(cations)):
+        if sum(combo) == atoms and sum(c.charge * k for c, k in zip(cations, combo)) == charge:
+            return [(c, k) for c, k in zip(cations, combo) if k]
+    return None
+
+
+def _protonate_by_counts(pieces: list[_Piece], species: list, fixed: list[int], total: int) -> list | None:
+    """'disodium phosphate' is Na2HPO4, 'monosodium citrate' NaH2C6H5O7,
+    'disodium EDTA' Na2H2edta (common practice): when the counted cations
+    carry less charge than one anion of a polyprotic acid, the anion keeps the
+    rest as acid hydrogens. Only for one such anion, named without a count."""
+    anions = [j for j, s in enumerate(species) if s[0] == "anion"]
+    if len(anions) != 1 or pieces[anions[0]].count is not None:
+        return None
+    j = anions[0]
+    ion = species[j][4]
+    found = _acid_base(ion) if ion is not None else None
+    if found is None or found[1]:
+        return None
+    base, _ = found
+    carried = total - base.charge  # the cations' charge
+    target = _protonated(base, carried)
+    if target is None or target == base:
+        return None
+    out = list(species)
+    out[j] = ("anion", None, target.charge, None, target)
+    return out
 
 
 def _lowest_ratio(ions: list[Ion]) -> list[tuple[Ion, int]]:
@@ -1425,6 +2254,10 @@ def _name(f: Formula, legacy: bool) -> str:
     named = _named()[1].get(key)
     if named:
         return named
+    if not f.water and len(f.parts) == 1:
+        group = _oxo_groups()[1].get(counts_key(f.counts))
+        if group and charge_balance(f).kind == "molecular":
+            return group
     if len(base.parts) == 1:
         acid = _acids()[1].get(counts_key(base.counts))
         if acid and _acid_matches(base):
@@ -1493,10 +2326,25 @@ def _salt_name(f: Formula, text: str, legacy: bool) -> str:
     cation_words = _cation_words(cations, legacy, f)
     anion_words = sorted({_share_name(s, legacy, f) for s in anions}, key=_sort_name)
     name = " ".join(cation_words + anion_words)
-    # Does the name read back to this formula? If not, say the counts.
+    # Does the name read back to this formula? If not, say the counts. A name
+    # the trade uses for this and other compounds (copper(II) carbonate, also
+    # said of the basic carbonate) is still this formula's name.
     try:
         back = _read_name(name)
         if counts_key(parse_formula(back.formula).counts) == counts_key(counts):
+            return name
+    except NameError_ as exc:
+        if exc.reason == "may-be" and any(
+            counts_key(parse_formula(c).anhydrous().counts) == counts_key(counts) for c in exc.choices
+        ):
+            # the short name the trade uses for several compounds: the prefixed
+            # name when it fixes this one ('trisodium phosphate'), else the short name
+            try:
+                prefixed = _prefixed_name(cations, anions, legacy, f, text)
+                if counts_key(parse_formula(_read_name(prefixed).formula).counts) == counts_key(counts):
+                    return prefixed
+            except CellchemError:
+                pass
             return name
     except CellchemError:
         pass
@@ -1548,7 +2396,11 @@ def _prefixed_name(cations, anions, legacy: bool, f: Formula, text: str) -> str:
             return name
         if not isinstance(n, int) or n not in simple:
             raise NameError_(f"'{text}' cannot be named with multiplicative prefixes")
-        if re.search(r"[\d,()\- ]", name) or name.startswith(("di", "tri", "tetra", "hydrogen")):
+        if (
+            re.search(r"[\d,()\- ]", name)
+            or name.startswith(("di", "tri", "tetra", "hydrogen"))
+            or _fold(simple[n] + name) in _ion_names()  # 'bis(phosphate)', not 'diphosphate' (P2O7 4-)
+        ):
             return f"{complex_[n]}({name})"
         return simple[n] + name
 
@@ -1557,7 +2409,15 @@ def _prefixed_name(cations, anions, legacy: bool, f: Formula, text: str) -> str:
             return element(share.ion.text).name  # the counts say the charge: 'tetraarsenic hexaoxide'
         return _share_name(share, legacy, f)
 
-    words = sorted((word(cation_name(s), s.count) for s in cations), key=_sort_name)
+    # one word per element for a monatomic cation of mixed valence ('digold dioxide')
+    merged: dict[str, list] = {}
+    for share in cations:
+        key = share.ion.text if share.ion is not None and share.ion.is_monatomic else id(share)
+        merged.setdefault(key, []).append(share)  # type: ignore[arg-type]
+    words = sorted(
+        (word(cation_name(group[0]), sum(x.count for x in group)) for group in merged.values()),
+        key=_sort_name,
+    )
     words += sorted((word(_share_name(s, legacy, f), s.count) for s in anions), key=_sort_name)
     return " ".join(words)
 

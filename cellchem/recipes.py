@@ -21,7 +21,18 @@ from .errors import CellchemError, ChemistryError
 from .formula import Formula, Number
 from .ions import counts_key
 from .mass import molar_mass
-from .solutions import STRONG_ACID, STRONG_BASE, WEAK_BASE, Dissociation, Value, _read_solute, ions_of
+from .solutions import (
+    STRONG_ACID,
+    STRONG_BASE,
+    WEAK_BASE,
+    Dissociation,
+    SoluteAmount,
+    Value,
+    _check_outside,
+    _read_solute,
+    check_solubility,
+    ions_of,
+)
 from .tables import read_table
 from .units import (
     AMOUNT_PER_MASS,
@@ -245,13 +256,17 @@ def convert_concentration(
         formula: the solute; needed whenever the conversion crosses between
             amount, mass and equivalents.
         density: the solution's density in g/mL (or text such as
-            ``'1.18 g/mL'``); needed for % w/w and mol/kg, never assumed.
+            ``'1.18 g/mL'``); needed, and never assumed, to go between % w/w or
+            mol/kg and a unit per volume. Between % w/w and mol/kg it is not
+            needed: both are per mass, m = w / ((1 - w) M) and w = m M / (1 + m M).
 
     Returns:
         A Value in ``to_unit`` with notes for any assumption (ppm as mg/L).
 
     >>> round(convert_concentration(37, "% w/w", "mol/L", "HCl", density=1.18), 2)
     11.98
+    >>> round(convert_concentration(10, "% w/w", "mol/kg", "NaCl"), 3)
+    1.901
     >>> convert_concentration(1, "mol/L", "meq/L", "CaCl2")
     2000.0
     """
@@ -273,9 +288,26 @@ def convert_concentration(
         )
     f = _read_solute(formula)
     what = f"converting {source.text} to {target.text}"
+    if {source.kind, target.kind} == {MASS_FRACTION, AMOUNT_PER_MASS}:
+        out = _mass_fraction_molality(base, source.kind, f, value)
+        return Value(_round(out / target.factor), target.text, notes)
     molar, _ = _to_molar(base, source.kind, f, density, what)
     out = _from_molar(molar, target.kind, f, density, what)
     return Value(_round(out / target.factor), target.text, notes)
+
+
+def _mass_fraction_molality(base: float, kind: str, f: Formula, given) -> float:
+    """Mass fraction w to molality m = w / ((1 - w) M), or back, w = m M / (1 + m M):
+    both are per mass of solvent and solute, so no density is needed."""
+    mm = float(molar_mass(f)) / 1000.0  # kg/mol
+    if kind == MASS_FRACTION:
+        if base >= 1:
+            raise CellchemError(
+                f"concentration: {given!r} is a mass fraction of 100 % or more, which leaves no water; give"
+                " less than 100 % w/w"
+            )
+        return base / ((1.0 - base) * mm)
+    return base * mm / (1.0 + base * mm)
 
 
 def _round(x: float) -> float:
@@ -393,6 +425,7 @@ def mass_for_solution(
     volume_unit: str = "L",
     mass_unit: str = "g",
     density: float | str | None = None,
+    outside_range: str = "refuse",
 ) -> Recipe:
     """How much to weigh to make up a solution.
 
@@ -409,6 +442,10 @@ def mass_for_solution(
             (5, or 0 for anhydrous).
         concentration_unit, volume_unit, mass_unit: units for plain numbers.
         density: the solution's density in g/mL, needed only for % w/w and mol/kg.
+        outside_range: ``'refuse'`` (default) or ``'warn'`` (a RangeWarning and
+            a note) for a concentration above what dissolves in water at 25 C,
+            for the salts of ``data/solubilities.csv``, by the rules of
+            ``cellchem.solutions``.
 
     Returns:
         A Recipe: ``mass`` (in ``mass_unit``), ``weigh``, ``notes``,
@@ -416,12 +453,18 @@ def mass_for_solution(
 
     Raises:
         CellchemError: unreadable input, a shelf form that is not a hydrate of
-            the solute, an unknown water count, a purity over 1.
+            the solute, an unknown water count, a purity over 1, a
+            concentration above what dissolves.
 
     >>> r = mass_for_solution("CuSO4", 0.1, "250 mL", shelf_form="CuSO4·5H2O")
     >>> round(r.mass, 3), r.weigh
     (6.242, 'CuSO4·5H2O')
+    >>> mass_for_solution("PbI2", 0.1, "1 L")  # doctest: +ELLIPSIS
+    Traceback (most recent call last):
+    ...
+    cellchem.errors.ChemistryError: PbI2 at 0.1 mol/L is above what dissolves in water at 25 C: ...
     """
+    _check_outside(outside_range)
     target = _read_solute(formula)
     if target.water is None:
         raise ChemistryError(
@@ -455,6 +498,9 @@ def mass_for_solution(
         d = ions_of(target)
     except CellchemError:
         pass
+    if d is not None and d.fully_dissociated:
+        for line in check_solubility((SoluteAmount(d, molar, str(concentration)),), "mol/L", outside_range):
+            notes.append(line + ".")
     if d is not None and d.behaviour in (STRONG_ACID,):
         notes.append(
             "Concentrated acids are measured by volume from a stock of known % w/w and density rather than"

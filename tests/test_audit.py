@@ -72,7 +72,7 @@ def test_name_without_formula_suggests_it():
 def test_all_capitals_are_flagged():
     result = check_line("CUO", "79.55", "copper(II) oxide")
     messages = [f.message for f in result.findings]
-    assert "'CUO' is written in capitals; it reads as UCO, but the letters also allow CuO" in messages
+    assert "'CUO' is written in capitals; it reads as CUO, but the letters also allow CuO" in messages
 
 
 @pytest.mark.parametrize(

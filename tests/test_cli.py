@@ -23,8 +23,8 @@ def test_demo_list_reports_the_planted_defects(capsys):
     # line 15: all capitals read as written, flagged
     assert "'CUO' is written in capitals" in out
     assert "24 lines checked" in out
-    # line 15: the name says copper(II) oxide, the formula reads as UCO
-    assert "the name 'Copper(II) oxide' reads as CuO, but the formula is UCO" in out
+    # line 15: the name says copper(II) oxide, the formula reads as C, U, O
+    assert "the name 'Copper(II) oxide' reads as CuO, but the formula is CUO" in out
 
 
 def test_clean_list_exits_0(tmp_path, capsys):

@@ -55,13 +55,17 @@ def _error(text) -> FormulaError:
 # ---------------------------------------------------------------------------
 
 CANONICAL = [
+    ("Na2SO4 10H2O", "Na2SO4·10H2O"),  # a space before water, as pasted, is the hydrate dot (common practice)
+    ("CuSO4 5 H2O", "CuSO4·5H2O"),  # the same, a space after the multiplier too (common practice)
+    ("CuSO4(H2O)5", "CuSO4·5H2O"),  # water in brackets at the end is the hydrate part (common practice)
+    ("D2O", "D2O"),  # deuterium oxide: D is read (IUPAC 2005 IR-3.3.2, from memory)
     # -- element symbols (case-sensitive) ---------------------------------
     ("NaCl", "NaCl"),  # two-letter symbols: capital then small letter
     ("KBr", "KBr"),  # one- and two-letter symbols side by side
     ("Co", "Co"),  # 'Co' is one symbol (cobalt)
     ("CO", "CO"),  # 'CO' is two symbols (carbon, oxygen)
     ("HgCl2", "HgCl2"),  # two-letter symbols with a count
-    ("CUSO4", "UCSO4"),  # all capitals are read as written (C, U, S, O4); cations first puts U first
+    ("CUSO4", "CUSO4"),  # all capitals are read as written (C, U, S, O4); no carbide in C compounds
     # -- counts -----------------------------------------------------------
     ("C6H12O6", "C6H12O6"),  # counts after symbols; a molecular formula keeps its order
     ("H2O1", "H2O"),  # an explicit count of 1 is not written back
@@ -734,12 +738,12 @@ ERRORS = [
         (),
     ),  # a space before a count
     (
-        "Na2SO4 10H2O",
-        "'Na2SO4 10H2O' is not a valid formula: unexpected '1' at position 8"
+        "Na2CO3 10NaCl",
+        "'Na2CO3 10NaCl' is not a valid formula: unexpected '1' at position 8"
         " (expected an element symbol, a count, a bracket, a hydrate dot or a charge at the end)",
         8,
         (),
-    ),  # a space is not a hydrate dot
+    ),  # a space is a hydrate dot only before water
     (
         "CuSO⁴",
         "'CuSO⁴' is not a valid formula: unexpected '⁴' at position 5"

@@ -54,20 +54,10 @@ def _same_compound(a: str, b: str) -> bool:
 
 # name -> why cellchem does not give the table's formula
 READ_BUGS = {
-    "disodium phosphate": "refused ('the counts named do not balance the charges of the ions'); the trade "
-    "name means Na2HPO4",
-    "triiron tetraoxide": "refused ('the counts named leave iron with a fractional charge'); IUPAC 2005 "
-    "IR-5.2 (from memory) names Fe3O4 so",
-    "lithium aluminium hydride": "read as a double hydride and written AlLiH4, not LiAlH4 as written for "
-    "lithium tetrahydridoaluminate",
-    "hydrogen peroxide 100 vol": "the volume strength '100 vol' is not set aside as a concentration",
-    "ammonia solution 0.880": "the strength '0.880' (specific gravity) is not set aside",
     "nitrous oxide": "the common name of N2O is not read",
     "nitric oxide": "the common name of NO is not read",
-    "phosphorus pentoxide": "refused ('PO5 does not balance'); the trade name means P2O5",
     "phosphorus(V) chloride": "an oxidation number on a non-metal ('phosphorus(V)') is not read",
     "mercury, triple distilled": "the element mercury is not read",
-    "sodium chloride, GPR": "the UK grade 'GPR' (general purpose reagent) is not set aside",
     "dimercury dichloride": "the prefixed name of Hg2Cl2 is not read ('dimercury' unknown)",
     "sodium hexakis(nitrito-κN)cobaltate(III)": "the kappa convention as printed (Greek κ) is not read "
     "('kappaN' and '-N' are)",
@@ -87,9 +77,9 @@ def test_reference_table_shape():
     assert len(ROWS) >= 300
     names = [r["name"] for r in ROWS]
     assert len(names) == len(set(names)), [n for n, k in Counter(names).items() if k > 1]
-    assert {r["direction"] for r in ROWS} <= {"both", "read"}
+    assert {r["direction"] for r in ROWS} <= {"both", "read", "write"}
     assert all(r["source"].strip() for r in ROWS)
-    both = [r["formula"] for r in ROWS if r["direction"] == "both"]
+    both = [r["formula"] for r in ROWS if r["direction"] in ("both", "write")]
     assert len(both) == len(set(both)), [f for f, k in Counter(both).items() if k > 1]
     assert set(READ_BUGS) <= set(names)
     assert set(WRITE_BUGS) <= set(both)
@@ -100,6 +90,8 @@ def test_reference_table_shape():
 def _read_params():
     out = []
     for r in ROWS:
+        if r["direction"] == "write":
+            continue
         marks = [_bug(READ_BUGS[r["name"]])] if r["name"] in READ_BUGS else []
         out.append(pytest.param(r["name"], r["formula"], id=r["name"], marks=marks))
     return out
@@ -108,7 +100,7 @@ def _read_params():
 def _write_params():
     out = []
     for r in ROWS:
-        if r["direction"] != "both":
+        if r["direction"] == "read":
             continue
         marks = [_bug(WRITE_BUGS[r["formula"]])] if r["formula"] in WRITE_BUGS else []
         out.append(pytest.param(r["formula"], r["name"], id=r["formula"], marks=marks))
@@ -238,7 +230,7 @@ IUPAC_EXAMPLES = [
     ("IR-5.2-SiCl4", "silicon tetrachloride", "SiCl4", "both", None),
     ("IR-5.2-SiC", "silicon carbide", "SiC", "read", None),
     ("IR-5.2-SiC-write", "silicon carbide", "SiC", "write", None),
-    ("IR-5.2-Fe3O4", "triiron tetraoxide", "Fe3O4", "read", READ_BUGS["triiron tetraoxide"]),
+    ("IR-5.2-Fe3O4", "triiron tetraoxide", "Fe3O4", "read", None),
     ("IR-5.2-Ca3P2", "calcium phosphide", "Ca3P2", "both", None),
     ("IR-5.2-Ca3P2-prefixed", "tricalcium diphosphide", "Ca3P2", "read", None),
 ]
@@ -332,7 +324,10 @@ ANALYSES = {
         forms=["american", "aluminum"],
     ),
     "aluminium potassium sulfate dodecahydrate": dict(
-        formula="AlK(SO4)2·12H2O", water=12, qualifiers=[("hydrate", "dodecahydrate")], forms=[]
+        formula="AlK(SO4)2·12H2O",
+        water=12,
+        qualifiers=[("hydrate", "dodecahydrate")],
+        forms=["established compound"],  # two cations, no prefixes: the ratio is the alum's
     ),
     "cesium chloride": dict(
         formula="CsCl",
@@ -351,7 +346,7 @@ ANALYSES = {
         cations=[("iron(II)", "Fe", 2, 1), ("iron(III)", "Fe", 3, 2)],
         anions=[("oxide", "O", -2, 4)],
         water=0,
-        forms=[],
+        forms=["established compound"],  # the Stock numbers do not give the ratio: magnetite's
     ),
     "lead(II,IV) oxide": dict(
         formula="Pb3O4",
@@ -619,6 +614,11 @@ EXCLUDED = {
     ("hydrogen", "ethanolate"),
     ("hydrogen", "2-methylpropan-2-olate"),
     ("hydrogen", "phenolate"),
+    # the free acids (cholic, deoxycholic, thioglycolic acid) are organic molecules that are
+    # not in acids.csv; cellchem does not name them
+    ("hydrogen", "cholate"),
+    ("hydrogen", "deoxycholate"),
+    ("hydrogen", "thioglycolate"),
 }
 
 _OXO_GROUP = (
@@ -677,6 +677,24 @@ _HYDRIDE_FAILS = (
 )  # fmt: skip
 
 # (cation name, anion name) -> reason; every entry is a cellchem bug
+# Organic cations added with their salts (choline chloride, CTAB, pyridinium chloride) and
+# hydrazinediium: their peroxides, superoxides and ozonides are no real compounds; the
+# formulas read as organic or molecular, which cellchem does not name.
+_NOT_COMPOUNDS = {
+    (c, a)
+    for c in (
+        "choline",
+        "pyridinium",
+        "1-hexadecylpyridinium",
+        "anilinium",
+        "triethylammonium",
+        "dimethylammonium",
+        "hexadecyltrimethylammonium",
+        "hydrazinediium",
+    )
+    for a in ("peroxide", "superoxide", "ozonide")
+}
+
 KNOWN_ROUND_TRIP_FAILURES: dict[tuple[str, str], str] = {
     **{(c, "superoxide"): _OXO_GROUP for c in _SUPEROXIDE_OZONIDE_FAILS},
     **{(c, "ozonide"): _OXO_GROUP for c in _SUPEROXIDE_OZONIDE_FAILS},
@@ -698,6 +716,13 @@ KNOWN_ROUND_TRIP_FAILURES: dict[tuple[str, str], str] = {
 }
 
 
+def _carbide_not_binary(cation, anion) -> bool:
+    """Carbide, acetylide or nitride beside a cation of two or more elements, in a carbon
+    compound: no real compound (carbides and nitrides are binary; common practice)."""
+    elements = set(cation.formula.counts) | set(anion.formula.counts)
+    return anion.text in ("C", "C2", "N") and "C" in elements and len(elements) > 2
+
+
 def _round_trip_failures() -> dict[tuple[str, str], str]:
     failures: dict[tuple[str, str], str] = {}
     cations = [i for i in catalog() if i.charge > 0]
@@ -705,7 +730,7 @@ def _round_trip_failures() -> dict[tuple[str, str], str]:
     for cation in cations:
         for anion in anions:
             key = (cation.name, anion.name)
-            if key in EXCLUDED:
+            if key in EXCLUDED or key in _NOT_COMPOUNDS or _carbide_not_binary(cation, anion):
                 continue
             try:
                 formula = salt_formula(cation, anion)
@@ -719,6 +744,10 @@ def _round_trip_failures() -> dict[tuple[str, str], str]:
             try:
                 back = formula_from_name(name)
             except CellchemError as exc:
+                if getattr(exc, "reason", "") == "may-be" and any(
+                    _same_compound(c, formula) for c in exc.choices
+                ):
+                    continue  # a name the trade uses for this and other compounds: refused, listing it
                 failures[key] = f"{formula} -> {name!r}: formula_from_name refuses: {exc}"
                 continue
             a, b = parse_formula(formula), parse_formula(back)
@@ -775,25 +804,28 @@ _UNREAD = " (organic names, mixtures and product codes are not read)"
 # says what the source requires: the charges a variable metal may have (IUPAC 2005
 # IR-5.4.2.2: the name must fix the proportions), organic names outside IR-5/IR-8/IR-9.
 REFUSALS = {
+    # the candidates in the order stores stock them: iron(III) chloride and copper(II) sulfate
+    # are the common reagents (common practice, from memory)
     "iron chloride": (
-        "'iron chloride' leaves the charge of iron open; it may be iron(II) chloride: FeCl2; "
-        "iron(III) chloride: FeCl3 (give a Stock number such as 'iron(II)')",
-        ("FeCl2", "FeCl3"),
+        "'iron chloride' leaves the charge of iron open; it may be iron(III) chloride: FeCl3; "
+        "iron(II) chloride: FeCl2 (give a Stock number such as 'iron(III)')",
+        ("FeCl3", "FeCl2"),
     ),
     "copper sulfate": (
-        "'copper sulfate' leaves the charge of copper open; it may be copper(I) sulfate: Cu2SO4; "
-        "copper(II) sulfate: CuSO4 (give a Stock number such as 'copper(I)')",
-        ("Cu2SO4", "CuSO4"),
+        "'copper sulfate' leaves the charge of copper open; it may be copper(II) sulfate: CuSO4; "
+        "copper(I) sulfate: Cu2SO4 (give a Stock number such as 'copper(II)')",
+        ("CuSO4", "Cu2SO4"),
     ),
     "tin chloride": (
         "'tin chloride' leaves the charge of tin open; it may be tin(II) chloride: SnCl2; "
         "tin(IV) chloride: SnCl4 (give a Stock number such as 'tin(II)')",
         ("SnCl2", "SnCl4"),
     ),
+    # the trade sells PbO, PbO2 and red lead Pb3O4 (common practice, from memory)
     "lead oxide": (
-        "'lead oxide' leaves the charge of lead open; it may be lead(II) oxide: PbO; "
-        "lead(IV) oxide: PbO2 (give a Stock number such as 'lead(II)')",
-        ("PbO", "PbO2"),
+        "'lead oxide' names more than one compound in the trade: it may be PbO or Pb3O4 or PbO2;"
+        " write the formula, or a name that fixes it",
+        ("PbO", "Pb3O4", "PbO2"),
     ),
     "ethanol": ("'ethanol' is not a name cellchem can read: no ion, element or known compound answers to "
                 "'ethanol'" + _UNREAD, ()),
@@ -899,10 +931,6 @@ _REFUSAL_BUGS = [
         "potassium hexacyanidoferrate",
         lambda m: "K3[Fe(CN)6]" in m and "K4[Fe(CN)6]" in m,
         id="potassium hexacyanidoferrate",
-        marks=_bug(
-            "the open charge of iron in a complex anion is reported as an unknown word, not as the choice "
-            "between K3[Fe(CN)6] and K4[Fe(CN)6]"
-        ),
     ),
 ]
 

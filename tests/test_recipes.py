@@ -2,6 +2,8 @@
 guides and general chemistry texts. Each check value is worked by hand from the
 molar masses (CIAAW 2021 conventional atomic weights) unless a source is named."""
 
+import warnings
+
 import pytest
 
 from cellchem import (
@@ -12,6 +14,7 @@ from cellchem import (
     mass_for_solution,
 )
 from cellchem.recipes import SDS_LINE, cautions_for
+from cellchem.solutions import RangeWarning
 
 
 def test_copper_sulfate_from_the_pentahydrate():
@@ -150,6 +153,69 @@ def test_molality_round_trip_needs_a_density():
     )
     with pytest.raises(CellchemError, match="density"):
         convert_concentration(1, "mol/kg", "mol/L", "NaCl")
+
+
+# % w/w and mol/kg are both per mass: m = w / ((1 - w) M) and w = m M / (1 + m M), no
+# density. Worked by hand with M(NaCl) = 58.44 g/mol: 10 % w/w is 10 g of NaCl in 90 g of
+# water, 0.17112 mol in 0.090 kg = 1.9013 mol/kg; 1 mol/kg is 58.44 g in 1058.44 g of
+# solution = 5.521 % w/w (the textbook definitions of both units).
+@pytest.mark.parametrize(
+    "value, source, target, formula, expected",
+    [
+        (10, "% w/w", "mol/kg", "NaCl", 1.9013),
+        (1, "mol/kg", "% w/w", "NaCl", 5.5213),
+        (100, "mmol/kg", "% w/w", "NaCl", 0.58103),  # 5.844 g in 1005.844 g
+        (20, "% w/w", "mmol/kg", "CuSO4", 1566.4),  # 20 g of CuSO4 (159.60 g/mol) in 80 g of water
+    ],
+)
+def test_mass_fraction_and_molality_need_no_density(value, source, target, formula, expected):
+    assert convert_concentration(value, source, target, formula) == pytest.approx(expected, rel=2e-4)
+    # the same with a density given (it is not used) and back again
+    assert convert_concentration(value, source, target, formula, density=1.07) == pytest.approx(
+        expected, rel=2e-4
+    )
+    back = convert_concentration(
+        convert_concentration(value, source, target, formula), target, source, formula
+    )
+    assert back == pytest.approx(value, rel=1e-9)
+
+
+def test_mass_fraction_of_100_percent_is_refused():
+    with pytest.raises(CellchemError, match="no water"):
+        convert_concentration(100, "% w/w", "mol/kg", "NaCl")
+    with pytest.raises(CellchemError, match="formula"):
+        convert_concentration(10, "% w/w", "mol/kg")
+
+
+# Above what dissolves at 25 C (CRC Handbook tables, from memory): PbI2 dissolves to about
+# 1.3 mmol/L (Ksp 9.8e-9), K2Cr2O7 to 0.51 mol/kg (13.1 g per 100 g of solution).
+@pytest.mark.parametrize(
+    "formula, concentration, kwargs",
+    [
+        ("PbI2", 0.1, {}),
+        ("AgCl", "1 g/L", {}),  # 7 mmol/L against 13 umol/L
+        ("BaSO4", 0.01, {}),
+        ("K2Cr2O7", 1.0, {}),
+        ("CuSO4", 2.0, {"shelf_form": "CuSO4·5H2O"}),  # 1.375 mol/kg of CuSO4 at most
+    ],
+)
+def test_recipe_above_solubility_is_refused(formula, concentration, kwargs):
+    with pytest.raises(CellchemError, match="above what dissolves in water at 25 C"):
+        mass_for_solution(formula, concentration, 1, **kwargs)
+    with pytest.warns(RangeWarning):
+        r = mass_for_solution(formula, concentration, 1, outside_range="warn", **kwargs)
+    assert any("above what dissolves" in n for n in r.notes)
+    assert "above what dissolves" in r.text
+
+
+def test_recipe_within_solubility_is_not_refused():
+    # saturated limewater (0.020 mol/L Ca(OH)2, PHREEQC pitzer.dat) and 0.5 mol/L K2Cr2O7
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", RangeWarning)
+        assert mass_for_solution("Ca(OH)2", 0.02, 1).mass == pytest.approx(0.02 * 74.09, rel=1e-3)
+        assert mass_for_solution("K2Cr2O7", 0.5, 1).mass > 0
+    with pytest.raises(CellchemError, match="outside_range"):
+        mass_for_solution("NaCl", 0.1, 1, outside_range="no")
 
 
 def test_dilution_worked_examples():
