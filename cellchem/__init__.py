@@ -28,7 +28,7 @@ from .recipes import (
     dilution,
     mass_for_solution,
 )
-from .solutions import Dissociation, Value, ionic_strength, ions_of
+from .solutions import Dissociation, Value, ionic_strength, ions_of, solubility
 
 __version__ = "0.1.0"
 
@@ -69,4 +69,5 @@ __all__ = [
     "parse_formula",
     "read_name",
     "salt_formula",
+    "solubility",
 ]

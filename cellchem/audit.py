@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 from functools import cache
 
 from .cas import read_cas
-from .charge import ORGANIC, charge_balance
+from .charge import ORGANIC, RADICAL, charge_balance
 from .columns import Layout, find_layout
 from .elements import all_elements
 from .errors import CellchemError
@@ -578,6 +578,16 @@ def _says_hydrogens(reading) -> bool:
     )
 
 
+def _named_formula(name: object) -> Formula | None:
+    """The formula a name cell reads as, or None (blank, refused)."""
+    if _blank(name):
+        return None
+    try:
+        return parse_formula(read_name(str(name).strip()).formula)
+    except CellchemError:
+        return None
+
+
 def _full_name(f: Formula) -> str:
     try:
         return name_from_formula(f)
@@ -661,7 +671,8 @@ def check_line(
         except CellchemError as mass_exc:
             findings.append(Finding("molar-mass", ERROR, str(mass_exc), "", "molar_mass"))
         return LineResult(None, None, tuple(findings))
-    findings.extend(check_name(name, f))
+    name_findings = check_name(name, f)
+    ahead = len(findings)  # the name's findings go before the formula's, after the CAS RN's
     if not any(c.islower() for c in text) and len(f.counts) > 1:
         other = [o for o in case_readings(text) if not _unusual(parse_formula(o))]
         if other and _unusual(f):
@@ -676,7 +687,9 @@ def check_line(
                 )
             )
     balance = charge_balance(f)
-    if not balance.balanced and balance.kind != ORGANIC:
+    if balance.kind == RADICAL:
+        findings.append(Finding("charge", WARNING, balance.explanation, "", "formula"))
+    elif not balance.balanced and balance.kind != ORGANIC:
         findings.append(Finding("charge", ERROR, balance.explanation, "", "formula"))
     mass: float | None = None
     try:
@@ -688,27 +701,99 @@ def check_line(
     except CellchemError as exc:
         findings.append(Finding("molar-mass", ERROR, str(exc), "", "molar_mass"))
         stated = None
-    if stated is not None and mass is not None:
-        value, decimals = stated
-        tolerance = mass_tolerance(value, decimals, mass_allowance)
-        if abs(value - mass) > tolerance:
-            hint = ""
-            dry = f.anhydrous()
-            # only hydrates that exist (data/hydrates.csv): never a hint of KNO3·0.5H2O
-            for n in sorted({0, *known_hydrates(dry)}):
-                other = dry.with_water(n)
-                if other == f or other.has_unknown_count:
-                    continue
-                if abs(value - float(molar_mass(other))) <= tolerance:
-                    hint = f"; {value:g} g/mol is the molar mass of {other.text()}"
-                    break
+    named = _named_formula(name)
+    tolerance = mass_tolerance(stated[0], stated[1], mass_allowance) if stated is not None else 0.0
+
+    def agrees(g: Formula | None) -> bool:
+        if g is None or stated is None or g.has_unknown_count:
+            return False
+        try:
+            return abs(stated[0] - float(molar_mass(g))) <= tolerance
+        except CellchemError:
+            return False
+
+    # Which cell is wrong: the stated molar mass is a witness between the name and the formula.
+    mass_agrees, name_agrees = agrees(f), agrees(named)
+    formula_in_doubt = any(x.check in ("charge", "formula-case") for x in findings)
+    blamed_formula = False
+    formula_findings, findings = findings[ahead:], findings[:ahead]
+    for finding in name_findings:
+        if finding.severity != ERROR or finding.check not in ("name", "name-hydrate") or named is None:
+            findings.append(finding)
+            continue
+        if mass_agrees and not name_agrees:
+            full = _full_name(f)
+            findings.append(
+                Finding(
+                    finding.check,
+                    ERROR,
+                    f"{finding.message}; the formula and the stated molar mass agree, so the name is the cell"
+                    " to check",
+                    full if full != f.text() else "",
+                    "name",
+                )
+            )
+        elif name_agrees and not mass_agrees:
+            blamed_formula = True
+            findings.append(
+                Finding(
+                    finding.check,
+                    ERROR,
+                    f"{finding.message}; the name and the stated molar mass agree, so the formula is the"
+                    " cell to check",
+                    finding.suggestion,
+                    "formula",
+                )
+            )
+        else:
+            findings.append(
+                Finding(
+                    finding.check,
+                    ERROR,
+                    finding.message
+                    + (
+                        "; the stated molar mass agrees with neither, so either cell may be wrong"
+                        if stated is not None
+                        else "; nothing else on the line says which of the two cells is wrong"
+                    ),
+                    "",
+                    "formula",
+                )
+            )
+    findings.extend(formula_findings)
+    if stated is not None and mass is not None and not mass_agrees and not blamed_formula:
+        value = stated[0]
+        hint = ""
+        dry = f.anhydrous()
+        # only hydrates that exist (data/hydrates.csv): never a hint of KNO3·0.5H2O
+        for n in sorted({0, *known_hydrates(dry)}):
+            other = dry.with_water(n)
+            if other == f or other.has_unknown_count:
+                continue
+            if abs(value - float(molar_mass(other))) <= tolerance:
+                hint = f"; {value:g} g/mol is the molar mass of {other.text()}"
+                break
+        message = f"the stated molar mass {value:g} g/mol does not match {f.text()}, {mass:.2f} g/mol{hint}"
+        corroborated = named is not None and (_same(named, f) or same_substance(named, f))
+        if formula_in_doubt:
+            findings.append(
+                Finding(
+                    "molar-mass",
+                    WARNING,
+                    f"{message}; the formula itself is in doubt (see the formula's finding)",
+                    "",
+                    "molar_mass",
+                )
+            )
+        elif corroborated:
+            findings.append(Finding("molar-mass", ERROR, message, f"{mass:.2f}", "molar_mass"))
+        else:
             findings.append(
                 Finding(
                     "molar-mass",
                     ERROR,
-                    f"the stated molar mass {value:g} g/mol does not match {f.text()},"
-                    f" {mass:.2f} g/mol{hint}",
-                    f"{mass:.2f}",
+                    f"{message}; nothing else on the line confirms the formula, so either cell may be wrong",
+                    "",
                     "molar_mass",
                 )
             )

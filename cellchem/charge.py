@@ -34,6 +34,7 @@ ELEMENT = "element"
 IONIC = "ionic"
 MOLECULAR = "molecular"
 ORGANIC = "organic"
+RADICAL = "radical"
 UNBALANCED = "unbalanced"
 
 _NUMBER_WORDS = "zero one two three four five six seven eight nine ten eleven twelve".split()
@@ -69,10 +70,12 @@ class ChargeBalance:
     Attributes:
         balanced: True when some assignment of catalog charges (or, for a
             molecular compound, of oxidation states) sums to the formula's charge.
-        kind: ``'ionic'``, ``'molecular'``, ``'element'``, ``'unbalanced'``, or
+        kind: ``'ionic'``, ``'molecular'``, ``'element'``, ``'unbalanced'``,
             ``'organic'``: a carbon compound that reads neither as catalog ions nor
             by the oxidation-state rules, for which charge balance is not
-            applicable (``balanced`` is False, and it is no error of the formula).
+            applicable (``balanced`` is False, and it is no error of the formula),
+            or ``'radical'``: an organic formula with an odd number of electrons,
+            a radical or a typing slip (``balanced`` is False).
         charges: the assignment, as Shares in formula order (empty if none).
         explanation: one line saying what was found, or why not.
     """
@@ -469,67 +472,164 @@ def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
     if plausible and solution is not None and (metal or whole_ion or _acceptable_without_metal(solution[1])):
         return _PartReading(IONIC, _flatten(solution[1]), solution[1])
     organic = "C" in counts and "H" in counts
-    if organic and metal:
-        by_counts = _organic_salt(counts_key(counts), target)
+    if metal and not adduct:
+        by_counts = _salt_by_counts(counts_key(counts), target)
         if by_counts is not None:
             return _PartReading(
                 IONIC, by_counts, (_Option(0, len(part.items), target, (0, 0, 0), by_counts),)
             )
+    if adduct and len(counts) == 1 and counts_key(counts) not in _ELEMENT_MOLECULES:
+        ((symbol, n),) = counts.items()
+        hint = " (the digit 0 typed for the letter O?)" if symbol == "H" and "0" in str(n) else ""
+        return _PartReading(
+            UNBALANCED,
+            (),
+            (),
+            None,
+            f"{render_items(part.items)} is not a molecule of {element(symbol).name}{hint}",
+        )
+    if "C" in counts and target == 0 and _bonds_short(counts):
+        return _PartReading(
+            UNBALANCED,
+            (),
+            (),
+            None,
+            f"{render_items(part.items)} has more hydrogen and halogen atoms than its carbon skeleton can"
+            " bind (no molecule has this formula; check the counts)",
+        )
     true_metal = any(element(s).is_metal for s in counts)
     if not metal or adduct or not true_metal:
         states = rule_states(counts, target)
         odd = _electrons(counts, target) % 2 == 1 and counts_key(counts) not in _STABLE_RADICALS
         if states is not None and not odd:
             return _PartReading(MOLECULAR, (), (), states)
+    if organic and _odd_closed_shell(counts, target):
+        return _PartReading(RADICAL, (), (), None, _why_radical(part))
     if organic:
         return _PartReading(ORGANIC, (), (), None, _why_organic(part, counts, metal))
     return _PartReading(UNBALANCED, (), (), None, _why_not(part, target))
 
 
+# Elements as molecules in an adduct part (KI·I2, S8, P4): anything else of one element after
+# a dot is a typing slip (MgSO4·7H20): common practice.
+_ELEMENT_MOLECULES = frozenset(
+    counts_key({s: n})
+    for s, n in (
+        ("H", 2),
+        ("N", 2),
+        ("O", 2),
+        ("O", 3),
+        ("F", 2),
+        ("Cl", 2),
+        ("Br", 2),
+        ("I", 2),
+        ("S", 8),
+        ("P", 4),
+    )
+)
+
+# Bonds each atom makes at most in a neutral organic molecule (C, Si 4; B 3; O, S 2 (6 for
+# S in sulfones, counted at its largest); H and halogens 1): when even these leave fewer than
+# zero rings and double bonds, no molecule has the formula (rings-plus-double-bonds count,
+# any organic chemistry text). N and P are left out (quaternary salts bind one more).
+_MOST_BONDS = {"C": 4, "Si": 4, "B": 3, "O": 2, "S": 6, "Se": 2, "H": 1, "F": 1, "Cl": 1, "Br": 1, "I": 1}
+
+
+def _bonds_short(counts: dict[str, Number]) -> bool:
+    if not set(counts) <= set(_MOST_BONDS) or any(not isinstance(n, int) for n in counts.values()):
+        return False
+    return 2 + sum(n * (_MOST_BONDS[s] - 2) for s, n in counts.items()) < 0
+
+
+# Cations with no unpaired electrons in their salts (s-block, Al, Ga, In, Zn, Cd, Ag, Sc, Y,
+# La): beside them, an organic formula with an odd number of electrons is a radical or a
+# typing slip (common practice). Salts of iron, copper and the like have unpaired electrons
+# and are not judged so.
+_CLOSED_SHELL = frozenset("Li Na K Rb Cs Be Mg Ca Sr Ba Al Ga In Zn Cd Ag Sc Y La".split())
+_NON_METAL_PARTS = frozenset("H B C N O F Si P S Cl Se Br I".split())
+
+
+def _odd_closed_shell(counts: dict[str, Number], target: int) -> bool:
+    if any(not isinstance(n, int) for n in counts.values()):
+        return False
+    if not set(counts) <= (_CLOSED_SHELL | _NON_METAL_PARTS):
+        return False
+    return _electrons(counts, target) % 2 == 1
+
+
+def _why_radical(part: Part) -> str:
+    text = render_items(part.items)
+    return (
+        f"{text} has an odd number of electrons: a radical (a few, such as TEMPO and DPPH, are sold)"
+        " or a typing slip in a count (check the hydrogen count)"
+    )
+
+
 @cache
-def _carbon_anions() -> dict[frozenset[str], list[Ion]]:
-    """Catalog anions that hold carbon, by their set of elements."""
+def _anions_by_elements() -> dict[frozenset[str], list[Ion]]:
+    """Catalog anions of two or more elements (single parts) by their set of
+    elements: the counts reading never makes up oxide, peroxide, carbide or
+    other one-element anions, which the reading of runs already weighs."""
     table: dict[frozenset[str], list[Ion]] = {}
     for ion in catalog():
-        if ion.charge < 0 and "C" in ion.formula.counts and len(ion.formula.parts) == 1:
+        if ion.charge < 0 and len(ion.formula.parts) == 1 and len(ion.formula.counts) >= 2:
             table.setdefault(frozenset(ion.formula.counts), []).append(ion)
     return table
 
 
 @lru_cache(maxsize=4096)
-def _organic_salt(key: tuple[tuple[str, Number], ...], target: int) -> tuple[Share, ...] | None:
-    """A salt of a catalog organic anion read from element counts alone, as
-    safety data sheets print formulas in Hill order (C2H3NaO2 is sodium
-    acetate, C8H5KO4 potassium hydrogen phthalate, C10H14N2Na2O8 disodium
-    dihydrogen edetate): metal cations, ammonium if needed, and one kind of
-    catalog anion that takes up every other atom. None when no such reading,
-    or more than one, exists."""
+def _salt_by_counts(key: tuple[tuple[str, Number], ...], target: int) -> tuple[Share, ...] | None:
+    """A salt read from element counts alone, as safety data sheets print
+    formulas in Hill order (C2H3NaO2 is sodium acetate, C8H5KO4 potassium
+    hydrogen phthalate, C2Na2O4 sodium oxalate) and sometimes with the water
+    of crystallisation counted in (H25Na2O16P is Na2HPO4·12H2O): metal
+    cations, ammonium if needed, one kind of catalog anion that takes up the
+    other atoms, and whole water molecules. None when no such reading, or more
+    than one, exists."""
     counts = dict(key)
     metals = {s: n for s, n in counts.items() if s != "H" and _forms_cation(s) and element(s).is_metal}
     if not metals or any(not isinstance(n, int) for n in counts.values()):
         return None
     rest = {s: n for s, n in counts.items() if s not in metals}
-    found: list[tuple[Share, ...]] = []
-    for ammonium in range(0, min(rest.get("N", 0), rest.get("H", 0) // 4) + 1):
-        left = dict(rest)
-        if ammonium:
-            left["N"] -= ammonium
-            left["H"] -= 4 * ammonium
-        left = {s: n for s, n in left.items() if n}
-        for anion in _carbon_anions().get(frozenset(left), []):
-            a_counts = anion.formula.counts
-            m, r = divmod(left["C"], a_counts["C"])
-            if r or m == 0 or any(left[s] != m * a_counts[s] for s in a_counts):
+    most_water = min(rest.get("H", 0) // 2, rest.get("O", 0), 30)
+    for water in range(most_water + 1):
+        # the reading with the least water counted in is taken (C6H7KO2 is potassium
+        # sorbate, not potassium phenolate and a water)
+        found: dict[tuple, tuple[Share, ...]] = {}
+        for ammonium in range(0, min(rest.get("N", 0), (rest.get("H", 0) - 2 * water) // 4) + 1):
+            left = dict(rest)
+            if water:
+                left["H"] -= 2 * water
+                left["O"] -= water
+            if ammonium:
+                left["N"] -= ammonium
+                left["H"] -= 4 * ammonium
+            left = {s: n for s, n in left.items() if n}
+            if not left:
                 continue
-            need = target - m * anion.charge - ammonium
-            for charges in _metal_charges(tuple(metals.items()), need):
-                shares = [Share(ion.label, ion.charge, n, ion) for ion, n in charges]
-                if ammonium:
-                    nh4 = next(i for i, k in ions_in({"N": 1, "H": 4}) if k == 1 and i.charge == 1)
-                    shares.append(Share(nh4.label, 1, ammonium, nh4))
-                shares.append(Share(anion.label, anion.charge, m, anion))
-                found.append(tuple(shares))
-    return found[0] if len(found) == 1 else None
+            first = next(iter(left))
+            for anion in _anions_by_elements().get(frozenset(left), []):
+                a_counts = anion.formula.counts
+                m, r = divmod(left[first], a_counts[first])
+                if r or m == 0 or any(left[s] != m * a_counts[s] for s in a_counts):
+                    continue
+                need = target - m * anion.charge - ammonium
+                for charges in _metal_charges(tuple(metals.items()), need):
+                    shares = [Share(ion.label, ion.charge, n, ion) for ion, n in charges]
+                    if ammonium:
+                        nh4 = next(i for i, k in ions_in({"N": 1, "H": 4}) if k == 1 and i.charge == 1)
+                        shares.append(Share(nh4.label, 1, ammonium, nh4))
+                    shares.append(Share(anion.label, anion.charge, m, anion))
+                    if water:
+                        shares.append(Share(_MERGED_WATER, 0, water, None))
+                    found[tuple((x.label, x.count) for x in shares)] = tuple(shares)
+        if found:
+            return next(iter(found.values())) if len(found) == 1 else None
+    return None
+
+
+# the water of crystallisation counted into a formula (H25Na2O16P for Na2HPO4·12H2O)
+_MERGED_WATER = "H2O (counted into the formula)"
 
 
 def _metal_charges(metals: tuple[tuple[str, Number], ...], total: int) -> list[list[tuple[Ion, Number]]]:
@@ -609,7 +709,7 @@ def _cation_species(symbol: str) -> list[Ion]:
 
 def _explain_ionic(text: str, shares: tuple[Share, ...]) -> str:
     ordered = [s for s in shares if s.charge > 0] + [s for s in shares if s.charge <= 0]
-    body = " + ".join(_share_phrase(s) for s in ordered if s.charge or s.ion)
+    body = " + ".join(_share_phrase(s) for s in ordered if s.charge or s.ion or s.label == _MERGED_WATER)
     notes = []
     by_element: dict[str, set[int]] = {}
     for s in shares:
@@ -669,9 +769,9 @@ def _analyse(formula: Formula) -> ChargeBalance:
         if reading.kind == UNBALANCED:
             where = f"the part '{render_items(part.items)}' of {text}" if len(formula.parts) > 1 else text
             return ChargeBalance(False, UNBALANCED, (), f"{where} is not balanced: {reading.why}")
-        if reading.kind == ORGANIC:
+        if reading.kind in (ORGANIC, RADICAL):
             where = f" (in {text})" if len(formula.parts) > 1 else ""
-            return ChargeBalance(False, ORGANIC, (), reading.why + where)
+            return ChargeBalance(False, reading.kind, (), reading.why + where)
         if part.multiplier is None:
             factor: Number = 1
         else:

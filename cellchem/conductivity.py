@@ -97,7 +97,8 @@ def conductivity(
         unit: unit of plain-number concentrations (default mol/L).
         temperature_coefficient: alpha of the linear compensation, per K.
         outside_range: ``'refuse'`` (default) past I = 0.02 mol/L, or
-            ``'warn'`` to have the estimate to I = 0.1 mol/L with a warning.
+            ``'warn'`` to have the estimate to I = 0.1 mol/L, or above what dissolves,
+            with a warning.
 
     Returns:
         A Value in uS/cm with notes (model, range, approximations) and
@@ -128,7 +129,7 @@ def conductivity(
             "temperature_coefficient: expected a fraction per K between 0 and 0.05, read"
             f" {temperature_coefficient!r}"
         )
-    basis, read, notes = read_solutes(solutes, unit, what="conductivity")
+    basis, read, notes = read_solutes(solutes, unit, what="conductivity", outside_range=outside_range)
     if basis != "mol/L":
         raise CellchemError(
             "conductivity needs molar concentrations (per litre of solution); give mol/L, mmol/L, g/L or mg/L"

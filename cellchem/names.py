@@ -239,11 +239,11 @@ def _acids() -> tuple[dict[str, str], dict[tuple, str]]:
 
 
 @cache
-def _trivial() -> dict[str, tuple[str, str]]:
-    """trivial name -> (formula text, the name as the table writes it)."""
-    table: dict[str, tuple[str, str]] = {}
+def _trivial() -> dict[str, tuple[str, str, str]]:
+    """trivial name -> (formula text, the name as the table writes it, its note)."""
+    table: dict[str, tuple[str, str, str]] = {}
     for row in read_table("trivial_names.csv"):
-        _index(table, row, (row["formula"], row["name"]), _fold)
+        _index(table, row, (row["formula"], row["name"], row.get("note", "")), _fold)
     return table
 
 
@@ -282,14 +282,17 @@ def _formula_key(text: str) -> tuple:
 # Normalising a name
 # ---------------------------------------------------------------------------
 
-_QUOTES = str.maketrans({"’": "'", "‘": "'", "ʼ": "'", "′": "'", "`": "'", "´": "'"})
+_QUOTES = str.maketrans(
+    {"’": "'", "‘": "'", "ʼ": "'", "′": "'", "`": "'", "´": "'", "“": '"', "”": '"', "„": '"'}
+)
 _DASHES = "‐‑‒–−"
 
 
 def _fold(text: str) -> str:
     """Case-fold, NFKC, plain quotes and hyphens, single spaces, IUPAC spelling;
     a multiplicative prefix joined to its word ('di-Sodium' is 'disodium')."""
-    s = re.sub(r"(\d)\s*½", r"\1.5", text).replace("½", " 0.5")
+    s = re.sub(r"[\u00ad\u200b\u200c\u200d\u2060\ufeff]", "", text)  # soft hyphens, zero-width spaces
+    s = re.sub(r"(\d)\s*½", r"\1.5", s).replace("½", " 0.5")
     s = unicodedata.normalize("NFKC", s).translate(_QUOTES)
     for d in _DASHES:
         s = s.replace(d, "-")
@@ -346,7 +349,7 @@ def _stock(s: str) -> tuple[str, list[str]]:
 _CONCENTRATION = re.compile(
     r"(?<![\w.])\d+(?:[.,]\d+)?\s*"
     r"(?:mol\s*/\s*l|mol\s*l-1|mol·l-1|mol\s*dm-3|mol\s*/\s*dm3|mol\s*/\s*kg|mmol\s*/\s*l|g\s*/\s*l|mg\s*/\s*l|"
-    r"ppm|%\s*\(?\s*(?:w/v|w/w|v/v|m/v|m/m|wt)\s*\)?|m(?![\w])|mm(?![\w])|n(?![\w]))"
+    r"ppm|%\s*\(?\s*(?:w/v|w/w|v/v|m/v|m/m|wt)\s*\)?|wt\s*\.?\s*%|m(?![\w])|mm(?![\w])|n(?![\w]))"
 )
 _PURITY = re.compile(
     r"(?:(?:min\.?|minimum|assay|purity|approx\.?|ca\.?)\s*)?(?:≥|>=|>|≤|<=|<|~)?\s*\d+(?:[.,]\d+)?\+?\s*%(?:\s*min\.?)?"
@@ -376,6 +379,12 @@ _HYDRATE_HEMI = re.compile(r"(?<![\w])hemi\s*\(\s*([a-z]+hydrate)\s*\)")
 # HPLC'), and impurity statements ('low in lead', 'arsenic free', 'iron-free'):
 # none of them is part of a compound name (common practice).
 _FOR_PHRASE = re.compile(r"(?<![\w])for [a-z0-9 .\-/]+?(?=,|;|\)|$)")
+# A particle size or sieve mesh ('<5 µm', '-100 mesh', '325 mesh'), a grade named by
+# its use ('FT-IR grade', 'HPLC grade') and a stabiliser statement ('stabilised
+# with amylene'): none is part of a compound name (common practice).
+_PARTICLE = re.compile(r"(?<![\w.])[<>≤≥~+-]?\s*\d+(?:[.,]\d+)?\s*(?:µm|μm|um|nm|microns?|mesh)(?![\w])")
+_USE_GRADE = re.compile(r"(?<![\w])[a-z0-9][a-z0-9.+-]* grade(?![\w])")
+_STABILISED = re.compile(r"(?<![\w])stabili[sz]ed(?: with [a-z0-9 .%-]+?)?(?=,|;|\)|$)")
 _IMPURITY = re.compile(r"(?<![\w])(?:low in|poor in) ([a-z]+)(?![\w])|(?<![\w])([a-z]+)[ -]free(?![\w])")
 
 
@@ -432,6 +441,8 @@ def _set_aside(s: str) -> tuple[str, list[Qualifier], Number | str | None]:
     s = _take(_CONCENTRATION, s, "concentration", found)
     s = _take(_PURITY, s, "purity", found)
     s = _take(_FOR_PHRASE, s, "grade", found)
+    s = _take(_PARTICLE, s, "form", found)
+    s = _take(_STABILISED, s, "grade", found)
     s, dry = _take_impurities(s, found)
     if dry:
         water = 0
@@ -470,6 +481,7 @@ def _set_aside(s: str) -> tuple[str, list[Qualifier], Number | str | None]:
                     water = None
             found.append(Qualifier(kind, text))
             s = pattern.sub(" ", s)
+    s = _take(_USE_GRADE, s, "grade", found)
     s = _take(_GRAVITY, s.strip(" ,;"), "strength", found)
     for word, kind in (("monobasic", "basicity"), ("dibasic", "basicity"), ("tribasic", "basicity")):
         if re.search(rf"(?<![\w]){word}(?![\w])", s):
@@ -581,6 +593,9 @@ def _lookup_piece(phrase: str) -> list[_Piece]:
         if complex_ion is not None:
             ion, form = complex_ion
             pieces.append(_Piece("cation" if ion.charge > 0 else "anion", ion, forms=form, text=phrase))
+        else:
+            for ion, form in _read_open_complex(phrase):
+                pieces.append(_Piece("cation" if ion.charge > 0 else "anion", ion, forms=form, text=phrase))
     m = re.fullmatch(r"([a-z]+)\(((?:[ivx]+,)+[ivx]+)\)", phrase)
     if m and m.group(1) in _element_names():
         values = tuple(_ROMAN_VALUES.get(v, 0) for v in m.group(2).split(","))
@@ -782,6 +797,57 @@ def _read_complex(word: str) -> tuple[Ion, tuple[str, ...]] | None:
         # the ligands may have eaten the start of the metal name: try shorter splits
         return _read_complex_backtrack(word)
     return _complex_from_tree(tree, word)
+
+
+def _complex_split(word: str) -> tuple[list[tuple[str, str]], str, str] | None:
+    """(ligand terms, central-atom name, Stock number or '') of a coordination
+    entity's name, or None."""
+    try:
+        tree = _complex_grammar().parse_string(word, parse_all=True)
+        return [(t[0], t[1]) for t in tree[0]], tree[1], tree[2]
+    except pp.ParseBaseException:
+        pass
+    m = re.fullmatch(r"(.*?)(\((?:[ivx]+|0|\d[+-])\))?", word)
+    assert m is not None
+    body, state = m.group(1), m.group(2) or ""
+    _, back = _ate_names()
+    names = {**{_fold(element(s).name): s for s in symbols()}, **{k: v for k, v in back.items()}}
+    for metal_name in sorted(names, key=len, reverse=True):
+        if body.endswith(metal_name) and len(body) > len(metal_name):
+            try:
+                return _ligand_terms(body[: -len(metal_name)]), metal_name, state
+            except ValueError:
+                continue
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _read_open_complex(word: str) -> tuple[tuple[Ion, tuple[str, ...]], ...]:
+    """A coordination entity named without the oxidation state of a central
+    atom that has several ('hexacyanoferrate'): one reading for each state,
+    so that counts elsewhere in the name ('tripotassium hexacyanoferrate')
+    settle it, and a name without counts is refused with the choices."""
+    if " " in word or len(word) < 6:
+        return ()
+    split = _complex_split(word)
+    if split is None or split[2]:
+        return ()
+    terms, metal_name, _ = split
+    _, back = _ate_names()
+    symbol = back.get(metal_name) or _element_names().get(metal_name)
+    if symbol is None:
+        return ()
+    states = sorted({i.charge for i in _monatomic(symbol, +1)})
+    if len(states) < 2:
+        return ()
+    out = []
+    for ox in states:
+        if ox not in _ROMAN:
+            continue
+        found = _complex_from_parts(terms, metal_name, f"({_ROMAN[ox].lower()})", word)
+        if found is not None:
+            out.append((found[0], (*found[1], f"'{word}' without the oxidation state of the central atom")))
+    return tuple(out)
 
 
 def _read_complex_backtrack(word: str) -> tuple[Ion, tuple[str, ...]] | None:
@@ -1028,7 +1094,9 @@ def read_name(name: str) -> NameReading:
 def _read_name(name: str) -> NameReading:
     text = name.strip()
     forms = _spelling_forms(text)
-    folded, synonyms = _bracketed_names(_fold(text))
+    plain_text, formulas = _bracketed_formulas(text)
+    folded, synonyms = _bracketed_names(_fold(plain_text))
+    synonyms += formulas
     folded, stock_forms = _stock(folded)
     forms.extend(stock_forms)
     rest, qualifiers, water = _set_aside(folded)
@@ -1075,6 +1143,33 @@ def _bracketed_names(folded: str) -> tuple[str, list[tuple[str, NameReading]]]:
         return " "
 
     out = re.sub(r"(?<=\s)\(([^()]*(?:\([ivx,]+\)[^()]*)*)\)(?=\s|,|$)", aside, folded)
+    out = re.sub(r'(?<![\w])"([^"]+)"(?![\w])', aside, out)  # a quoted name: '"sugar of lead"'
+    return out, found
+
+
+def _bracketed_formulas(text: str) -> tuple[str, list[tuple[str, NameReading]]]:
+    """Set aside a formula written in brackets after a name, as catalogues print
+    it ('Copper oxide (CuO)', 'Iron chloride (FeCl3)'): it stands beside the
+    name as a second witness of the compound. Roman numerals are Stock numbers,
+    not formulas."""
+    found: list[tuple[str, NameReading]] = []
+
+    def aside(m: re.Match[str]) -> str:
+        inner = m.group(1).strip()
+        if re.fullmatch(r"[IVX]+(?:,[IVX]+)*", inner) or not re.search(r"[A-Z]", inner):
+            return m.group(0)
+        try:
+            f = parse_formula(inner)
+        except CellchemError:
+            return m.group(0)
+        if f.charge or len(f.counts) < 2:
+            return m.group(0)
+        found.append(
+            (inner, _whole_reading(inner, inner, _kind_of(f.anhydrous()), f, "", [], ["formula in brackets"]))
+        )
+        return " "
+
+    out = re.sub(r"(?<=[\w)\]])\s*\(([A-Za-z0-9·.\[\]() ]+?)\)(?=\s|,|;|$)", aside, text)
     return out, found
 
 
@@ -1124,8 +1219,9 @@ def _agree_with_synonyms(
     for inner, other in synonyms:
         g = parse_formula(other.formula)
         if not _same_dry(f, g) and not same_substance(f.anhydrous(), g.anhydrous()):
+            what = "formula" if any(c.isupper() for c in inner) else "name"
             raise NameError_(
-                f"'{text}' names two compounds: the name reads as {f.text()}, the name in brackets"
+                f"'{text}' names two compounds: the name reads as {f.text()}, the {what} in brackets"
                 f" '{inner}' as {g.text()}; write one name",
                 text=text,
                 choices=(f.text(), g.text()),
@@ -1182,40 +1278,55 @@ def _check_colours(text: str, reading: NameReading) -> None:
             )
 
 
-_SALT = re.compile(
-    r"^(?P<acid>.+?)(?:,\s*|\s+)(?P<cation>(?:mono|di|tri|tetra)?[a-z()]+(?:\s+[a-z()]+)?)\s+salt$"
-)
+_SALT = re.compile(r"^(?P<body>.+?)\s+salt(?:\s*\(\s*(?P<m>\d+)\s*:\s*(?P<n>\d+)\s*\))?$")
 
 
 def _acid_salt_inversion(text: str, rest: str) -> tuple[str, str] | None:
     """'acetic acid, sodium salt', 'phosphoric acid, disodium salt', 'EDTA
-    disodium salt' (catalogue style): the cation's name, then the acid's
-    anion. A polyprotic acid's salt with no count on the cation ('citric acid,
-    sodium salt') does not say how many hydrogens are replaced: refused."""
+    disodium salt', 'sulfuric acid, copper(2+) salt (1:1)' (catalogue and
+    registry style): the cation's name, then the acid's anion; a ratio in
+    brackets gives the counts. A polyprotic acid's salt with no count on the
+    cation ('citric acid, sodium salt') does not say how many hydrogens are
+    replaced: refused."""
     m = _SALT.match(rest.replace(" ,", ","))
     if not m:
         return None
-    acid, cation = m.group("acid").strip(" ,"), m.group("cation").strip()
-    anion: Ion | None = None
-    formula = _acids()[0].get(acid)
-    if formula is not None:
-        anion = next((row for row in _acid_anions() if row[0] == acid), (acid, None))[1]
-    else:
-        named = [ion for ion, _ in _ion_names().get(acid, []) if ion.charge < 0]
-        anion = named[0] if len(named) == 1 else None
-    if anion is None:
-        return None
-    counted = re.match(r"(mono|di|tri|tetra)(?=[a-z])", cation)
-    if not counted and anion.charge < -1:
-        bases = [i for i in (_protonated(anion, k) for k in range(1, -anion.charge + 1)) if i is not None]
-        raise NameError_(
-            f"'{text}' does not say how many of the {-anion.charge} acid hydrogens the {cation} replaces;"
-            f" write mono-, di- or tri{cation} salt, or the formula",
-            text=text,
-            choices=tuple(i.name for i in bases),
-            reason="ratio",
-        )
-    return f"{cation} {anion.name}", "catalogue form 'acid, cation salt'"
+    words = m.group("body").replace(",", " , ").split()
+    for k in range(len(words) - 1, 0, -1):
+        acid = " ".join(w for w in words[:k] if w != ",").strip()
+        cation = " ".join(w for w in words[k:] if w != ",").strip()
+        if not acid or not cation or len(cation.split()) > 2:
+            continue
+        anion = _anion_of_acid(acid)
+        if anion is None:
+            continue
+        if m.group("m"):
+            # a registry ratio of cation to anion: counts for both
+            a, b = int(m.group("m")), int(m.group("n"))
+            simple, _ = _prefixes()
+            cation_word = (simple[a] if a > 1 else "") + cation
+            anion_word = (simple[b] if b > 1 else "") + anion.name if b > 1 else anion.name
+            return f"{cation_word} {anion_word}", "catalogue form 'acid, cation salt (ratio)'"
+        counted = re.match(r"(mono|di|tri|tetra)(?=[a-z])", cation)
+        if not counted and anion.charge < -1:
+            bases = [i for i in (_protonated(anion, j) for j in range(1, -anion.charge + 1)) if i is not None]
+            raise NameError_(
+                f"'{text}' does not say how many of the {-anion.charge} acid hydrogens the {cation} replaces;"
+                f" write mono-, di- or tri{cation} salt, or the formula",
+                text=text,
+                choices=tuple(i.name for i in bases),
+                reason="ratio",
+            )
+        return f"{cation} {anion.name}", "catalogue form 'acid, cation salt'"
+    return None
+
+
+def _anion_of_acid(words: str) -> Ion | None:
+    """The anion of an acid named in acids.csv, or an anion named directly ('EDTA')."""
+    if words in _acids()[0]:
+        return next((ion for name, ion in _acid_anions() if name == words), None)
+    named = [ion for ion, _ in _ion_names().get(words, []) if ion.charge < 0]
+    return named[0] if len(named) == 1 else None
 
 
 @cache
@@ -1384,6 +1495,17 @@ def _whole_lookup(
         if found is None:
             continue
         formula_text = found[0] if isinstance(found, tuple) else found
+        if kind == "trivial" and found[2].startswith("Ambiguous:") and _fold(found[1]) == plain:
+            # the table marks a name the trade also uses for other substances
+            why = found[2][len("Ambiguous:") :].strip().split(";")[0].rstrip(".")
+            usual = _canonical(parse_formula(formula_text)).text()
+            raise NameError_(
+                f"'{text}' is used for more than one substance ({why}); the usual meaning is {usual}:"
+                " write the formula or the systematic name",
+                text=text,
+                choices=(usual,),
+                reason="may-be",
+            )
         f = parse_formula(formula_text)
         extra = [f"{label} '{plain}'"] if label else []
         balance = charge_balance(f)
@@ -2162,7 +2284,28 @@ def _sort_name(name: str) -> str:
     return re.sub(r"[^a-z]", "", re.sub(r"\(.*?\)", "", name.casefold()))
 
 
+# Non-metals with one oxidation state in their binary compounds, so that a name
+# without prefixes fixes the ratio ('silicon nitride' is Si3N4, 'boron nitride'
+# BN): common practice. Any other ('carbon oxide', 'nitrogen oxide', 'sulfur
+# chloride') needs prefixes, and is refused without them.
+_ONE_STATE = {"H": 1, "B": 3, "Si": 4}
+
+
 def _molecular_formula(pieces: list[_Piece]) -> Formula:
+    if len(pieces) == 2 and not any(p.count for p in pieces) and pieces[0].role == "element":
+        first, second = pieces
+        state = _ONE_STATE.get(first.symbol)
+        anion = second.ion
+        if state is None or anion is None or not anion.is_monatomic:
+            name = element(first.symbol).name
+            raise NameError_(
+                f"the name gives no counts, and {name} has more than one oxidation state in its molecular"
+                " compounds; give the counts with prefixes (as in carbon monoxide, carbon dioxide)",
+                reason="ratio",
+            )
+        g = gcd(state, -anion.charge)
+        a, b = -anion.charge // g, state // g
+        return parse_formula(f"{first.symbol}{a if a > 1 else ''}{anion.text}{b if b > 1 else ''}")
     out = []
     for i, p in enumerate(pieces):
         n = p.count or 1

@@ -30,7 +30,9 @@ LINES = [
     # an organic name is not checked, said in a note
     ("glucose", "C6H12O6", "180.16", [("name", NOTE)]),
     # a formula that does not balance, and its molar mass then disagrees with NaCl's
-    ("sodium chloride", "NaCl2", "58.44", [("name", ERROR), ("charge", ERROR), ("molar-mass", ERROR)]),
+    # the name and the stated molar mass agree (NaCl 58.44 g/mol, CRC, from memory): the formula is
+    # blamed, and the molar mass is not
+    ("sodium chloride", "NaCl2", "58.44", [("name", ERROR), ("charge", ERROR)]),
     # wrong case is refused with readings
     ("cobalt(II) chloride hexahydrate", "co Cl2·6H2O", "237.93", [("formula", ERROR)]),
     # an unknown water count: molar mass cannot be given
@@ -50,12 +52,36 @@ def test_line(name, formula, stated, expected):
 
 
 def test_hydrate_hint_names_the_form_whose_mass_was_given():
+    # CuSO4 is 159.61 g/mol, CuSO4·5H2O 249.68 g/mol (CRC Handbook, from memory)
     result = check_line("CuSO4·5H2O", "159.61")
     assert result.findings[0].message == (
         "the stated molar mass 159.61 g/mol does not match CuSO4·5H2O, 249.68 g/mol;"
-        " 159.61 g/mol is the molar mass of CuSO4"
+        " 159.61 g/mol is the molar mass of CuSO4; nothing else on the line confirms the formula,"
+        " so either cell may be wrong"
     )
-    assert result.findings[0].suggestion == "249.68"
+    # no name says which hydrate the line holds: no value is suggested for either cell
+    assert result.findings[0].suggestion == ""
+
+
+def test_a_name_that_confirms_the_formula_lets_the_mass_be_corrected():
+    result = check_line("CuSO4·5H2O", "159.61", "copper(II) sulfate pentahydrate")
+    assert [(f.check, f.field, f.suggestion) for f in result.findings] == [
+        ("molar-mass", "molar_mass", "249.68")
+    ]
+
+
+def test_a_name_and_mass_that_agree_blame_the_formula():
+    # sodium chloride, 58.44 g/mol (CRC Handbook, from memory), on a line whose formula is KCl
+    result = check_line("KCl", "58.44", "sodium chloride")
+    assert [(f.check, f.field, f.suggestion) for f in result.findings] == [("name", "formula", "NaCl")]
+
+
+def test_a_formula_and_mass_that_agree_blame_the_name():
+    # potassium chloride, 74.55 g/mol (CRC Handbook, from memory), on a line named sodium chloride
+    result = check_line("KCl", "74.55", "Sodium chloride, AR")
+    assert [(f.check, f.field, f.suggestion) for f in result.findings] == [
+        ("name", "name", "potassium chloride")
+    ]
 
 
 def test_hydrate_hint_the_other_way():

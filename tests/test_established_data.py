@@ -663,7 +663,7 @@ ESTABLISHED_MASSES = [
     ("praseodymium(III,IV) oxide", None, "0", 1021.44),  # CRC (from memory)
     ("terbium(III,IV) oxide", None, "0", 747.70),  # CRC (from memory)
     ("basic copper carbonate", None, "0", 221.12),  # CRC, basic copper carbonate (from memory)
-    ("basic magnesium carbonate", None, "0", 485.65),  # Merck, as printed (from memory)
+    ("basic magnesium carbonate", "4MgCO3·Mg(OH)2·5H2O", "0", 485.65),  # Merck, as printed (from memory)
     ("basic zinc carbonate", None, "0", 548.96),  # Merck, as printed (from memory)
     ("basic lead carbonate", None, "0", 775.63),  # CRC (from memory)
     ("bismuth subnitrate", "4BiNO3(OH)2·BiO(OH)", "0", 1461.99),  # Merck, as printed (from memory)

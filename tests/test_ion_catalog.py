@@ -315,6 +315,7 @@ OXO_STATES = {
     "I": {1, 5, 7},
     "Cr": {6},
     "Fe": {6},  # ferrate(VI) FeO4 2- (from memory)
+    "Os": {6},  # osmate(VI) OsO4 2- (from memory)
     "Zr": {4},  # zirconate ZrO3 2- (from memory)
     "Nb": {5},  # niobate NbO3- (from memory)
     "Ta": {5},  # tantalate TaO3- (from memory)
