@@ -548,9 +548,9 @@ def _sign(charge: int) -> str:
 def _ion_keys(f: Formula) -> set[tuple[str, int]] | None:
     """The (formula, charge) of each ion of a formula, coordination entities
     also as their metal ion and ligand anions; None when it is not ionic."""
-    from .names import _ion_sets
+    from .names import ion_sets
 
-    sets = _ion_sets(f.anhydrous())
+    sets = ion_sets(f.anhydrous())
     if not sets:
         return None
     return set().union(*sets)
@@ -1010,7 +1010,7 @@ def audit_rows(
     >>> audit = audit_rows([["Name", "Formula", "MW"], ["Sodium chloride", "NaCl", 58.44],
     ...                     ["Sodium sulfite", "Na2SO4", 142.04]])
     >>> [(row, col, f.severity, f.check) for row, col, f in audit.findings]
-    [(3, 'B', 'error', 'name')]
+    [(3, 'A', 'error', 'name')]
     """
     materialised = [list(r) for r in rows]
     layout = find_layout(materialised, columns)

@@ -1704,7 +1704,7 @@ def _by_ion_set() -> dict[frozenset[tuple[str, int]], tuple[str, ...]]:
         f = parse_formula(text).anhydrous()
         if len(f.parts) > 1:
             continue
-        for key in _ion_sets(f):
+        for key in ion_sets(f):
             entries = table.setdefault(key, [])
             canonical = _canonical(f).text()
             if canonical not in entries:
@@ -1716,7 +1716,7 @@ def _established_rows() -> list[tuple[str, str]]:
     return [(row["status"], row["formula"]) for row in read_table("established_compounds.csv")]
 
 
-def _ion_sets(f: Formula) -> list[frozenset[tuple[str, int]]]:
+def ion_sets(f: Formula) -> list[frozenset[tuple[str, int]]]:
     """The set of ions of an ionic formula, and (when it holds a coordination
     entity whose ligands are all catalog anions) the set with the entity split
     into its metal ion and ligand anions."""
@@ -1888,6 +1888,10 @@ def _build(
     named = [p.ion for p in pieces if p.ion is not None]
     if len(named) != len(set(named)):
         raise _unknown(text, "it names the same ion twice")
+    if "element" not in roles and any(p.count is not None and p.text in _ion_names() for p in pieces):
+        # 'dihydrogenborate' names the ion H2BO3-, not two hydrogenborate ions: a
+        # prefix is read off an ion's own name only in a molecular name ('carbon disulfide')
+        raise _unknown(text, "a word that names an ion is not read as a prefix and another ion")
     basicity = [q.text for q in qualifiers if q.kind == "basicity"]
     if basicity:
         pieces = _apply_basicity(text, pieces, basicity[0])
