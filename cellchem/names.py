@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from fractions import Fraction
 from functools import cache, lru_cache
 from itertools import product
@@ -1194,19 +1194,7 @@ def _chosen_by_synonym(text: str, exc: NameError_, synonyms: list[tuple[str, Nam
 
 
 def _with_kind(reading: NameReading) -> NameReading:
-    kind = _kind_of(parse_formula(reading.formula).anhydrous())
-    return NameReading(
-        reading.text,
-        reading.compound,
-        kind,
-        reading.formula,
-        reading.cations,
-        reading.anions,
-        reading.elements,
-        reading.water,
-        reading.qualifiers,
-        reading.forms,
-    )
+    return replace(reading, kind=_kind_of(parse_formula(reading.formula).anhydrous()))
 
 
 def _agree_with_synonyms(
@@ -1238,22 +1226,25 @@ def _agree_with_synonyms(
                     reason="may-be",
                 )
             if not stated:
-                wet = f.with_water(g.water) if g.water else f  # type: ignore[arg-type]
-                cations, anions, elements_ = _components_of(wet)
-                reading = NameReading(
-                    reading.text,
-                    reading.compound,
-                    reading.kind,
-                    wet.text(),
-                    cations,
-                    anions,
-                    elements_,
-                    wet.water,
-                    reading.qualifiers,
-                    (*reading.forms, f"water from the name in brackets '{inner}'"),
-                )
-                f = wet
+                reading = _rewet(reading, g.water, f"water from the name in brackets '{inner}'")
+                f = parse_formula(reading.formula)
     return reading
+
+
+def _rewet(reading: NameReading, water: Number | None, form: str) -> NameReading:
+    """The reading with this water of crystallisation, and the form that says why."""
+    dry = parse_formula(reading.formula).anhydrous()
+    wet = dry.with_water(water) if water else dry
+    cations, anions, elements_ = _components_of(wet)
+    return replace(
+        reading,
+        formula=wet.text(),
+        cations=cations,
+        anions=anions,
+        elements=elements_,
+        water=wet.water,
+        forms=(*reading.forms, form),
+    )
 
 
 @cache
@@ -1620,20 +1611,7 @@ def _crystals(reading: NameReading) -> NameReading:
     crystals = _hydrates().get(counts_key(f.counts), (frozenset(), None))[1]
     if crystals is None:
         return reading
-    wet = f.with_water(crystals)
-    cations, anions, elements_ = _components_of(wet)
-    return NameReading(
-        reading.text,
-        reading.compound,
-        reading.kind,
-        wet.text(),
-        cations,
-        anions,
-        elements_,
-        wet.water,
-        reading.qualifiers,
-        (*reading.forms, f"'crystals' for the {_hydrate_suffix(crystals).strip()}"),
-    )
+    return _rewet(reading, crystals, f"'crystals' for the {_hydrate_suffix(crystals).strip()}")
 
 
 @cache

@@ -64,6 +64,9 @@ def test_mixed_types():
     assert sf.cc_casvalid("7732-18-5") is True
     assert sf.cc_oxstate("KMnO4", "Mn") == 7.0
     assert sf.cc_balanced(True).startswith(MARK)  # a boolean is not a formula
+    # an organic salt with no catalog anion is neither balanced nor not: refused with the reason
+    assert sf.cc_balanced("C9H19N2NaO4S").startswith(MARK)
+    assert sf.cc_balanced("C2H3NaO2") is True  # sodium acetate in Hill order (common practice)
 
 
 def test_broadcast_and_shape_mismatch():

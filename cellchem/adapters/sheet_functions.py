@@ -185,11 +185,20 @@ def cc_oxstate(formula=None, element=None):
     "CC_BALANCED",
     "TRUE when the formula's charges balance (catalog ions, or oxidation states for a molecule).",
     [A("formula", "the formula, e.g. NaCl2")],
-    "TRUE or FALSE",
+    "TRUE or FALSE; a refusal for an organic formula no catalog anion accounts for (charge balance not"
+    " applicable) or one with an odd number of electrons",
     '=CC_BALANCED("NaCl2") gives FALSE',
 )
 def cc_balanced(formula=None):
-    return cellwise(lambda f: bool(charge_balance(text(f, "formula")).balanced), [formula])
+    return cellwise(_balanced_one, [formula])
+
+
+def _balanced_one(formula):
+    result = charge_balance(text(formula, "formula"))
+    if result.kind in ("organic", "radical"):
+        # neither TRUE nor FALSE: charge balance does not apply, or the formula is in doubt
+        raise CellchemError(result.explanation)
+    return bool(result.balanced)
 
 
 def _checkline_one(name, formula, mass, cas):
