@@ -35,6 +35,7 @@ IONIC = "ionic"
 MOLECULAR = "molecular"
 ORGANIC = "organic"
 RADICAL = "radical"
+ESTABLISHED = "established"
 UNBALANCED = "unbalanced"
 
 _NUMBER_WORDS = "zero one two three four five six seven eight nine ten eleven twelve".split()
@@ -74,8 +75,11 @@ class ChargeBalance:
             ``'organic'``: a carbon compound that reads neither as catalog ions nor
             by the oxidation-state rules, for which charge balance is not
             applicable (``balanced`` is False, and it is no error of the formula),
-            or ``'radical'``: an organic formula with an odd number of electrons,
-            a radical or a typing slip (``balanced`` is False).
+            ``'radical'``: an organic formula with an odd number of electrons,
+            a radical or a typing slip (``balanced`` is False), or
+            ``'established'``: a compound of the name tables that reads as no
+            simple ions (CaSi2, Pr6O11); ``balanced`` is True, its charges
+            are not checked.
         charges: the assignment, as Shares in formula order (empty if none).
         explanation: one line saying what was found, or why not.
     """
@@ -829,6 +833,39 @@ def _protium(formula: Formula) -> Formula:
     return Formula(parts, formula.charge)
 
 
+@cache
+def _established_formulas() -> frozenset[tuple]:
+    """Anhydrous counts of the compounds the name tables list (established_compounds.csv,
+    named_compounds.csv, trivial_names.csv): real compounds, some of which read as no simple
+    ions (CaSi2, MoSi2, Pr6O11, Fremy's salt)."""
+    from .formula import parse_formula
+    from .tables import read_table
+
+    keys = set()
+    for table in ("established_compounds.csv", "named_compounds.csv", "trivial_names.csv"):
+        for row in read_table(table):
+            keys.add(counts_key(parse_formula(row["formula"]).anhydrous().counts))
+    return frozenset(keys)
+
+
+def _known_compound(formula: Formula, found: ChargeBalance) -> ChargeBalance:
+    """An unbalanced or organic verdict on a compound the name tables list is replaced by
+    'established': the compound is real; its charges are not checked."""
+    if found.kind not in (UNBALANCED, ORGANIC, RADICAL) or formula.charge:
+        return found
+    if counts_key(formula.anhydrous().counts) not in _established_formulas():
+        return found
+    text = formula.text()
+    return ChargeBalance(
+        True,
+        ESTABLISHED,
+        (),
+        f"{text} is a compound of cellchem's established-compounds tables that does not read as simple"
+        " catalog ions (an intermetallic, a mixed-valence oxide or a radical salt): its charges are not"
+        " checked",
+    )
+
+
 def charge_balance(formula: str | Formula) -> ChargeBalance:
     """Is the formula neutral (or of its written charge) for some assignment
     of catalog charges?
@@ -847,7 +884,8 @@ def charge_balance(formula: str | Formula) -> ChargeBalance:
     >>> charge_balance("NaCl2").explanation
     'NaCl2 is not balanced: sodium forms only Na+; two chloride ions carry 2-'
     """
-    return _analyse(as_formula(formula))
+    f = as_formula(formula)
+    return _known_compound(f, _analyse(f))
 
 
 def net_charge(formula: str | Formula) -> int:

@@ -1550,6 +1550,19 @@ def _established() -> tuple[dict[str, list[tuple[str, str]]], dict[tuple, tuple[
     return by_name, by_key
 
 
+@cache
+def _established_names() -> dict[tuple, str]:
+    """Anhydrous counts key -> the name of an 'is' row of established_compounds.csv."""
+    out: dict[tuple, str] = {}
+    for status, formula in _established_rows():
+        if status == IS:
+            row_name = next(
+                r["name"] for r in read_table("established_compounds.csv") if r["formula"] == formula
+            )
+            out.setdefault(counts_key(parse_formula(formula).anhydrous().counts), row_name)
+    return out
+
+
 def same_substance(a: str | Formula, b: str | Formula) -> bool:
     """True when two formulas are printed for one substance by a cited table
     (P2O5 and P4O10, As2O3 and As4O6: data/established_compounds.csv), or
@@ -2383,6 +2396,12 @@ def _name(f: Formula, legacy: bool) -> str:
         group = _oxo_groups()[1].get(counts_key(f.counts))
         if group and charge_balance(f).kind == "molecular":
             return group
+    if charge_balance(base).kind == "established":
+        # a compound that reads as no simple ions: the name the table gives it, if one
+        own = _established_names().get(counts_key(base.counts))
+        if own is None:
+            raise NameError_(f"'{text}' reads as no simple ions and no table names it", text=text)
+        return own + _hydrate_suffix(f.water)
     if len(base.parts) == 1:
         acid = _acids()[1].get(counts_key(base.counts))
         if acid and _acid_matches(base):

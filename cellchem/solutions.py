@@ -271,7 +271,12 @@ def _ions_of(f: Formula) -> Dissociation:
             text=f.source,
         )
 
-    assert balance.kind == IONIC
+    if balance.kind != IONIC:
+        raise ChemistryError(
+            f"{text} does not read as simple ions ({balance.explanation}); cellchem does not model it in"
+            " solution: give the ions you expect instead",
+            text=f.source,
+        )
     counts: dict[Ion, Number] = {}
     neutral: list[str] = []
     for share in balance.charges:

@@ -420,3 +420,18 @@ def test_a_refused_name_never_gives_an_audit_error_against_a_candidate(cation, a
         except CellchemError:
             continue
         assert all(f.severity in (WARNING, NOTE) for f in check_name_findings(name, choice)), (name, choice)
+
+
+@pytest.mark.parametrize(
+    ("formula", "name"),
+    [
+        ("CaSi2", "calcium silicide"),
+        ("MoSi2", "molybdenum silicide"),
+        ("Pr6O11", "praseodymium(III,IV) oxide"),
+    ],
+)  # real compounds with no simple ionic reading: CRC (from memory)
+def test_established_compounds_that_read_as_no_simple_ions_are_not_errors(formula, name):
+    result = charge_balance(formula)
+    assert result.balanced and result.kind == "established"
+    assert all(f.severity != ERROR for f in check_line(formula).findings)
+    assert name_from_formula(formula) == name
