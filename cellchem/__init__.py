@@ -29,6 +29,7 @@ from .recipes import (
     mass_for_solution,
 )
 from .solutions import Dissociation, Value, ionic_strength, ions_of, solubility
+from .substances import Substance, find_substances, substance
 
 __version__ = "0.1.0"
 
@@ -43,6 +44,7 @@ __all__ = [
     "IonBalance",
     "NameReading",
     "Recipe",
+    "Substance",
     "Value",
     "activity_coefficient",
     "audit_rows",
@@ -55,6 +57,7 @@ __all__ = [
     "dilution",
     "element",
     "find_ion",
+    "find_substances",
     "formula_from_name",
     "ion_balance",
     "ionic_strength",
@@ -70,4 +73,5 @@ __all__ = [
     "read_name",
     "salt_formula",
     "solubility",
+    "substance",
 ]

@@ -17,14 +17,17 @@ from functools import cache
 from .cas import read_cas
 from .charge import ORGANIC, RADICAL, charge_balance
 from .columns import Layout, find_layout
-from .elements import all_elements
+from .elements import all_elements, element
 from .errors import CellchemError
 from .formula import Formula, case_readings, parse_formula
 from .ions import catalog, counts_key
 from .mass import molar_mass
 from .memo import Memo, typed
 from .names import known_hydrates, name_from_formula, read_name, same_substance
+from .substances import composition_key, name_match
+from .substances import substance as substance_record
 from .tables import read_table
+from .witness import CAS, FORMULA, MASS, NAME, Dispute, Witness, formula_of_record, weigh
 
 ERROR = "error"
 WARNING = "warning"
@@ -595,31 +598,6 @@ def _full_name(f: Formula) -> str:
         return f.text()
 
 
-def check_cas(cas: object) -> list[Finding]:
-    """Findings for a CAS RN cell: an error for a bad format or check digit
-    (with the check digit the other digits call for), a note for a number
-    written in another form (without hyphens, with a prefix)."""
-    if _blank(cas):
-        return []
-    try:
-        reading = read_cas(cas if not isinstance(cas, float) or not cas.is_integer() else int(cas))
-    except CellchemError as exc:
-        suggestion = exc.choices[0] if exc.choices else ""
-        return [Finding("cas", ERROR, str(exc), suggestion, "cas")]
-    if reading.forms:
-        return [
-            Finding(
-                "cas",
-                NOTE,
-                f"CAS RN '{str(cas).strip()}' is written {' and '.join(reading.forms)}; the standard form is"
-                f" {reading.number}",
-                reading.number,
-                "cas",
-            )
-        ]
-    return []
-
-
 # Elements a stores formula seldom holds: a capitals reading that needs one of
 # them, where another reading does not, is flagged (CUO reads as C, U, O).
 _UNUSUAL = frozenset({"He", "Ne", "Ar", "Kr", "Xe", "Rn", "Tc", "Pm"}) | frozenset(
@@ -631,6 +609,10 @@ def _unusual(f: Formula) -> bool:
     return any(symbol in _UNUSUAL for symbol in f.counts)
 
 
+STANDARD_WEIGHTS, SCHOOL_WEIGHTS = "standard", "school"
+WEIGHT_PRESETS = (STANDARD_WEIGHTS, SCHOOL_WEIGHTS)
+
+
 def check_line(
     formula: object,
     stated_molar_mass: object = None,
@@ -639,9 +621,13 @@ def check_line(
     *,
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
+    weights: str = STANDARD_WEIGHTS,
 ) -> LineResult:
-    """Check a line's formula, its stated molar mass against the formula, its
-    name against the formula, and its CAS RN.
+    """Check a line: the formula reads and balances, the molar mass is a number, the CAS
+    RN is well formed, and the four witnesses (name, formula, molar mass, CAS RN through
+    the substance table) agree. Where they do not, the finding names the cell the other
+    witnesses agree against and suggests a value for that cell alone; where no majority
+    settles it, it names both sides and suggests nothing.
 
     Args:
         formula: the formula cell (text); empty gives no formula findings.
@@ -651,32 +637,136 @@ def check_line(
         mass_allowance: g/mol allowed beyond the rounding of the stated value
             (default: 0.01 g/mol or 0.01 %, whichever is larger).
         decimal_comma: whether text numbers use a decimal comma.
+        weights: ``'standard'`` (CIAAW), or ``'school'`` to accept also a molar mass
+            computed with the rounded atomic weights of school data books (Cl 35.5,
+            Cu 63.5; data/school_weights.csv).
 
     Returns:
         A LineResult with the findings.
     """
-    findings: list[Finding] = list(check_cas(cas))
-    if _blank(formula):
-        return LineResult(None, None, tuple(check_name(name, None) + findings))
-    text = str(formula)
-    try:
-        f = parse_formula(text)
-    except CellchemError as exc:
-        suggestion = ""
-        if exc.choices:
-            suggestion = "write one of: " + ", ".join(exc.choices)
-        findings.append(Finding("formula", ERROR, str(exc), suggestion, "formula"))
+    if weights not in WEIGHT_PRESETS:
+        raise CellchemError(f"weights: expected one of {', '.join(WEIGHT_PRESETS)}, read {weights!r}")
+    findings: list[Finding] = []
+    cas_number, cas_findings = _cas_cell(cas)
+    f: Formula | None = None
+    formula_findings: list[Finding] = []
+    text = "" if _blank(formula) else str(formula)
+    if text:
         try:
-            read_stated_mass(stated_molar_mass, decimal_comma)
-        except CellchemError as mass_exc:
-            findings.append(Finding("molar-mass", ERROR, str(mass_exc), "", "molar_mass"))
-        return LineResult(None, None, tuple(findings))
-    name_findings = check_name(name, f)
-    ahead = len(findings)  # the name's findings go before the formula's, after the CAS RN's
+            f = parse_formula(text)
+        except CellchemError as exc:
+            suggestion = "write one of: " + ", ".join(exc.choices) if exc.choices else ""
+            formula_findings.append(Finding("formula", ERROR, str(exc), suggestion, "formula"))
+    stated = None
+    try:
+        stated = read_stated_mass(stated_molar_mass, decimal_comma)
+    except CellchemError as exc:
+        formula_findings.append(Finding("molar-mass", ERROR, str(exc), "", "molar_mass"))
+    mass: float | None = None
+    if f is not None:
+        formula_findings.extend(_formula_findings(text, f))
+        try:
+            mass = float(molar_mass(f))
+        except CellchemError as exc:
+            formula_findings.append(Finding("molar-mass", WARNING, str(exc), "", "formula"))
+    tolerance = mass_tolerance(stated[0], stated[1], mass_allowance) if stated is not None else 0.0
+
+    def matches(g: Formula) -> bool:
+        if stated is None:
+            return False
+        if abs(stated[0] - float(molar_mass(g))) <= tolerance:
+            return True
+        return weights == SCHOOL_WEIGHTS and abs(stated[0] - school_mass(g)) <= tolerance
+
+    name_findings, name_witness, reading = _name_witness(name, f, not text)
+    witnesses = [w for w in (name_witness,) if w is not None]
+    if f is not None and not f.has_unknown_count:
+        witnesses.append(Witness(FORMULA, f, "the formula"))
+    record_findings, cas_witness = _cas_witness(cas_number, f, name_witness)
+    if cas_witness is not None:
+        witnesses.append(cas_witness)
+    disputes = weigh(witnesses, stated[0] if stated is not None else None, matches)
+    findings.extend(cas_findings)
+    findings.extend(name_findings)
+    settled = {d.role for d in disputes}
+    for d in disputes:
+        findings.append(_dispute_finding(d, reading, f, stated[0] if stated else None, tolerance))
+    findings.extend(formula_findings)
+    findings.extend(record_findings)
+    if (
+        f is not None
+        and mass is not None
+        and stated is not None
+        and not matches(f)
+        and not settled & {FORMULA, MASS}
+        and not any(d.role in ("", "?") for d in disputes)
+    ):
+        findings.append(_mass_finding(f, mass, stated[0], tolerance, formula_findings, named=name_witness))
+    if cas_number and cas_findings and cas_findings[0].severity == ERROR:
+        findings = _suggest_cas(findings, cas_number, witnesses)
+    return LineResult(f, mass, tuple(findings))
+
+
+@cache
+def _school_weights() -> dict[str, float]:
+    return {row["symbol"]: float(row["weight"]) for row in read_table("school_weights.csv")}
+
+
+def school_mass(f: Formula) -> float:
+    """The molar mass with the rounded atomic weights of school data books
+    (data/school_weights.csv), the standard weight for any element they leave out.
+
+    >>> round(school_mass(parse_formula("CuSO4·5H2O")), 1)
+    249.5
+    """
+    table = _school_weights()
+    total = 0.0
+    for symbol, n in f.counts.items():
+        weight = table.get(symbol)
+        total += float(n) * (weight if weight is not None else element(symbol).atomic_weight)
+    return total
+
+
+def _cas_cell(cas: object) -> tuple[str, list[Finding]]:
+    """The CAS RN in its standard form ('' when there is none or it is malformed) and the
+    findings of its format: an error for a bad format or check digit (no number is
+    suggested here: only a number the substance table holds can be), a note for another
+    way of writing it."""
+    if _blank(cas):
+        return "", []
+    raw = cas if not isinstance(cas, float) or not cas.is_integer() else int(cas)
+    try:
+        reading = read_cas(raw)
+    except CellchemError as exc:
+        digits = re.sub(r"\D", "", str(raw))
+        message = str(exc).split("; the check digit")[0] if "check digit" in str(exc) else str(exc)
+        return (digits if len(digits) >= 5 else ""), [Finding("cas", ERROR, message, "", "cas")]
+    if reading.forms:
+        return reading.number, [
+            Finding(
+                "cas",
+                NOTE,
+                f"CAS RN '{str(cas).strip()}' is written {' and '.join(reading.forms)}; the standard form is"
+                f" {reading.number}",
+                reading.number,
+                "cas",
+            )
+        ]
+    return reading.number, []
+
+
+def check_cas(cas: object) -> list[Finding]:
+    """Findings for a CAS RN cell alone: an error for a bad format or check digit, a note
+    for a number written in another form (without hyphens, with a prefix)."""
+    return _cas_cell(cas)[1]
+
+
+def _formula_findings(text: str, f: Formula) -> list[Finding]:
+    out: list[Finding] = []
     if not any(c.islower() for c in text) and len(f.counts) > 1:
         other = [o for o in case_readings(text) if not _unusual(parse_formula(o))]
         if other and _unusual(f):
-            findings.append(
+            out.append(
                 Finding(
                     "formula-case",
                     WARNING,
@@ -688,116 +778,202 @@ def check_line(
             )
     balance = charge_balance(f)
     if balance.kind == RADICAL:
-        findings.append(Finding("charge", WARNING, balance.explanation, "", "formula"))
+        out.append(Finding("charge", WARNING, balance.explanation, "", "formula"))
     elif not balance.balanced and balance.kind != ORGANIC:
-        findings.append(Finding("charge", ERROR, balance.explanation, "", "formula"))
-    mass: float | None = None
-    try:
-        mass = float(molar_mass(f))
-    except CellchemError as exc:
-        findings.append(Finding("molar-mass", WARNING, str(exc), "", "formula"))
-    try:
-        stated = read_stated_mass(stated_molar_mass, decimal_comma)
-    except CellchemError as exc:
-        findings.append(Finding("molar-mass", ERROR, str(exc), "", "molar_mass"))
-        stated = None
-    named = _named_formula(name)
-    tolerance = mass_tolerance(stated[0], stated[1], mass_allowance) if stated is not None else 0.0
+        out.append(Finding("charge", ERROR, balance.explanation, "", "formula"))
+    return out
 
-    def agrees(g: Formula | None) -> bool:
-        if g is None or stated is None or g.has_unknown_count:
-            return False
-        try:
-            return abs(stated[0] - float(molar_mass(g))) <= tolerance
-        except CellchemError:
-            return False
 
-    # Which cell is wrong: the stated molar mass is a witness between the name and the formula.
-    mass_agrees, name_agrees = agrees(f), agrees(named)
-    formula_in_doubt = any(x.check in ("charge", "formula-case") for x in findings)
-    blamed_formula = False
-    formula_findings, findings = findings[ahead:], findings[:ahead]
-    for finding in name_findings:
-        if finding.severity != ERROR or finding.check not in ("name", "name-hydrate") or named is None:
-            findings.append(finding)
+def _name_witness(name: object, f: Formula | None, formula_blank: bool = False):
+    """(findings, witness or None, reading or None) of a name cell: the name read by
+    cellchem; or, when cellchem refuses it, the one substance the substance table matches
+    it to exactly (a synonym match never grounds an error)."""
+    if _blank(name):
+        return [], None, None
+    text = str(name).strip()
+    try:
+        reading = read_name(text)
+    except CellchemError as exc:
+        findings = _refused_name(text, exc, f)
+        witness = None
+        if f is not None and exc.choices and any(x.severity == NOTE for x in findings):
+            # the formula is one of the name's readings: the name stands with it, weakly
+            witness = Witness(NAME, f, f"the name '{text}'", grounds=False)
+        elif getattr(exc, "reason", "") in ("unknown", ""):
+            witness = _table_name_witness(text)
+            if witness is not None:
+                findings = [x for x in findings if not x.message.startswith("name not checked")]
+        return findings, witness, None
+    named = parse_formula(reading.formula)
+    findings = check_name(text, f) if f is not None or formula_blank else []
+    # keep the name's warnings and notes (silent about the hydrate or the acid hydrogens);
+    # its disagreements are weighed with the other witnesses
+    findings = [x for x in findings if x.severity != ERROR]
+    said = f"the name '{text}'"
+    if f is not None:
+        stated_water = any(q.kind == "hydrate" for q in reading.qualifiers) or bool(named.water)
+        if not stated_water and _same(named.anhydrous(), f.anhydrous()):
+            return findings, Witness(NAME, f, said, grounds=False), reading
+        if any(x.check == "name" and x.severity == WARNING for x in findings):
+            return findings, None, reading  # silent about the acid hydrogens: not a witness
+    return findings, Witness(NAME, named, said), reading
+
+
+def _table_name_witness(text: str) -> Witness | None:
+    found = name_match(text)
+    if found is None:
+        return None
+    record, how = found
+    g = formula_of_record(record) if record.certain else None
+    if g is None:
+        return None
+    said = f"the name '{text}' ({'a synonym of ' if how == 'synonym' else ''}{record.name}, CAS {record.cas})"
+    return Witness(NAME, g, said, grounds=how == "name", record=record)
+
+
+def _cas_witness(
+    number: str, f: Formula | None, name: Witness | None
+) -> tuple[list[Finding], Witness | None]:
+    if not number or not re.fullmatch(r"\d{2,7}-\d\d-\d", number):
+        return [], None
+    record = substance_record(number)
+    if record is None:
+        return [], None
+    if not record.certain:
+        return [
+            Finding(
+                "cas",
+                NOTE,
+                f"the substance table's record for CAS RN {number} ({record.name}, {record.formula}) is"
+                f" uncertain ({record.doubt}); the CAS RN is not weighed against the other cells",
+                "",
+                "cas",
+            )
+        ], None
+    g = formula_of_record(record)
+    if g is None:
+        return [], None
+    return [], Witness(CAS, g, f"CAS {number} ({record.name})", record=record)
+
+
+def _dispute_finding(
+    d: Dispute, reading, f: Formula | None, stated: float | None = None, tolerance: float = 0.0
+) -> Finding:
+    if d.role == NAME or (d.role == FORMULA and reading is not None):
+        named = parse_formula(reading.formula) if reading is not None else None
+        how = how_they_differ(named, f) if named is not None and f is not None else ""
+        check = (
+            "name-hydrate"
+            if named is not None and f is not None and _same(named.anhydrous(), f.anhydrous())
+            else "name"
+        )
+        message = d.message + (f" ({how})" if how else "")
+        return Finding(check, ERROR, message, d.suggestion, "name" if d.role == NAME else "formula")
+    if d.role == MASS:
+        hint = _hydrate_hint_of(f, stated, tolerance) if f is not None and stated is not None else ""
+        return Finding("molar-mass", ERROR, d.message + hint, d.suggestion, "molar_mass")
+    if d.role == CAS:
+        return Finding("cas", ERROR, d.message, d.suggestion, "cas")
+    if d.role == FORMULA:
+        return Finding("formula", ERROR, d.message, d.suggestion, "formula")
+    severity = WARNING if d.role == "?" else ERROR
+    message = d.message
+    if reading is not None and f is not None:
+        how = how_they_differ(parse_formula(reading.formula), f)
+        message += f" ({how})" if how else ""
+    return Finding("agreement", severity, message, "", "formula" if f is not None else "name")
+
+
+def _hydrate_hint_of(f: Formula, value: float, tolerance: float) -> str:
+    """'; 159.61 g/mol is the molar mass of CuSO4' when a stated molar mass is another
+    hydrate's that exists (data/hydrates.csv), or the anhydrous salt's; '' otherwise."""
+    dry = f.anhydrous()
+    for n in sorted({0, *known_hydrates(dry)}):
+        other = dry.with_water(n)
+        if other == f or other.has_unknown_count:
             continue
-        if mass_agrees and not name_agrees:
-            full = _full_name(f)
-            findings.append(
-                Finding(
-                    finding.check,
-                    ERROR,
-                    f"{finding.message}; the formula and the stated molar mass agree, so the name is the cell"
-                    " to check",
-                    full if full != f.text() else "",
-                    "name",
-                )
+        if abs(value - float(molar_mass(other))) <= tolerance:
+            return f"; {value:g} g/mol is the molar mass of {other.text()}"
+    return ""
+
+
+def _mass_finding(
+    f: Formula, mass: float, value: float, tolerance: float, formula_findings: list[Finding], named
+) -> Finding:
+    # only hydrates that exist (data/hydrates.csv): never a hint of KNO3·0.5H2O
+    hint = _hydrate_hint_of(f, value, tolerance)
+    message = f"the stated molar mass {value:g} g/mol does not match {f.text()}, {mass:.2f} g/mol{hint}"
+    if any(x.check in ("charge", "formula-case") for x in formula_findings):
+        return Finding(
+            "molar-mass",
+            WARNING,
+            f"{message}; the formula itself is in doubt (see the formula's finding)",
+            "",
+            "molar_mass",
+        )
+    if named is not None and named.grounds and _same(named.formula, f):
+        return Finding("molar-mass", ERROR, message, f"{mass:.2f}", "molar_mass")
+    return Finding(
+        "molar-mass",
+        ERROR,
+        f"{message}; nothing else on the line confirms the formula, so either cell may be wrong",
+        "",
+        "molar_mass",
+    )
+
+
+def _suggest_cas(findings: list[Finding], digits: str, witnesses: list[Witness]) -> list[Finding]:
+    """A CAS RN with a wrong check digit: the numbers of the substance table one typing slip
+    away (one digit changed, two neighbours swapped) that belong to the line's substance."""
+    compositions = [w.formula for w in witnesses if w.role != CAS and w.grounds]
+    if not compositions:
+        return findings
+    near = [
+        s
+        for s in cas_neighbours(digits)
+        if s.certain
+        and any(composition_key(formula_of_record(s) or c) == composition_key(c) for c in compositions)
+    ]
+    out = []
+    for x in findings:
+        if x.check == "cas" and x.severity == ERROR and len(near) == 1:
+            x = Finding(
+                x.check,
+                x.severity,
+                f"{x.message}; one typing slip away, the substance table holds {near[0].cas}"
+                f" ({near[0].name}), the line's substance",
+                near[0].cas,
+                x.field,
             )
-        elif name_agrees and not mass_agrees:
-            blamed_formula = True
-            findings.append(
-                Finding(
-                    finding.check,
-                    ERROR,
-                    f"{finding.message}; the name and the stated molar mass agree, so the formula is the"
-                    " cell to check",
-                    finding.suggestion,
-                    "formula",
-                )
-            )
-        else:
-            findings.append(
-                Finding(
-                    finding.check,
-                    ERROR,
-                    finding.message
-                    + (
-                        "; the stated molar mass agrees with neither, so either cell may be wrong"
-                        if stated is not None
-                        else "; nothing else on the line says which of the two cells is wrong"
-                    ),
-                    "",
-                    "formula",
-                )
-            )
-    findings.extend(formula_findings)
-    if stated is not None and mass is not None and not mass_agrees and not blamed_formula:
-        value = stated[0]
-        hint = ""
-        dry = f.anhydrous()
-        # only hydrates that exist (data/hydrates.csv): never a hint of KNO3·0.5H2O
-        for n in sorted({0, *known_hydrates(dry)}):
-            other = dry.with_water(n)
-            if other == f or other.has_unknown_count:
-                continue
-            if abs(value - float(molar_mass(other))) <= tolerance:
-                hint = f"; {value:g} g/mol is the molar mass of {other.text()}"
-                break
-        message = f"the stated molar mass {value:g} g/mol does not match {f.text()}, {mass:.2f} g/mol{hint}"
-        corroborated = named is not None and (_same(named, f) or same_substance(named, f))
-        if formula_in_doubt:
-            findings.append(
-                Finding(
-                    "molar-mass",
-                    WARNING,
-                    f"{message}; the formula itself is in doubt (see the formula's finding)",
-                    "",
-                    "molar_mass",
-                )
-            )
-        elif corroborated:
-            findings.append(Finding("molar-mass", ERROR, message, f"{mass:.2f}", "molar_mass"))
-        else:
-            findings.append(
-                Finding(
-                    "molar-mass",
-                    ERROR,
-                    f"{message}; nothing else on the line confirms the formula, so either cell may be wrong",
-                    "",
-                    "molar_mass",
-                )
-            )
-    return LineResult(f, mass, tuple(findings))
+        out.append(x)
+    return out
+
+
+def cas_neighbours(digits: str) -> list:
+    """Substance records whose CAS RN is one typing slip from these digits: one digit
+    changed, or two neighbouring digits swapped, with a valid check digit."""
+    digits = re.sub(r"\D", "", digits)
+    seen: set[str] = set()
+    out = []
+    candidates = []
+    for i in range(len(digits)):
+        for d in "0123456789":
+            if d != digits[i]:
+                candidates.append(digits[:i] + d + digits[i + 1 :])
+        if i + 1 < len(digits) and digits[i] != digits[i + 1]:
+            candidates.append(digits[:i] + digits[i + 1] + digits[i] + digits[i + 2 :])
+    for c in candidates:
+        if len(c) < 5 or c in seen:
+            continue
+        seen.add(c)
+        number = f"{c[:-3]}-{c[-3:-1]}-{c[-1]}"
+        try:
+            record = substance_record(number)
+        except CellchemError:
+            continue
+        if record is not None:
+            out.append(record)
+    return out
 
 
 # ---------------------------------------------------------------------------
@@ -834,6 +1010,43 @@ class RowResult:
 
 
 INTERNAL = "internal"
+SAVED_VALUE = "saved-value"
+
+
+class UnsavedValue:
+    """A spreadsheet formula cell whose value cannot be read: the file holds no
+    saved (cached) value for it, or asks for every formula to be recalculated
+    when it is opened, which programs that write workbooks without computing
+    them do (their saved values are empty or 0). Readers give this in place of
+    the cell's value; the audit reports it and checks the line without it."""
+
+    __slots__ = ("recalculate",)
+
+    def __init__(self, recalculate: bool = False) -> None:
+        self.recalculate = recalculate
+
+    @property
+    def message(self) -> str:
+        if self.recalculate:
+            return (
+                "the cell holds a spreadsheet formula whose saved value was never computed (the file asks"
+                " for its formulas to be recalculated when opened): open and save the file in your"
+                " spreadsheet program"
+            )
+        return (
+            "the cell holds a spreadsheet formula with no saved value: open and save the file in your"
+            " spreadsheet program"
+        )
+
+    def __repr__(self) -> str:
+        return "UnsavedValue(recalculate=True)" if self.recalculate else "UnsavedValue()"
+
+    def __str__(self) -> str:
+        return "(a formula with no saved value)"
+
+
+NO_SAVED_VALUE = UnsavedValue()
+NOT_RECALCULATED = UnsavedValue(recalculate=True)
 
 
 def _guarded(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
@@ -886,18 +1099,33 @@ def audit_row(
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
 ) -> RowResult:
-    """Audit one data row of a table whose layout is known."""
+    """Audit one data row of a table whose layout is known.
+
+    A cell given as an UnsavedValue (a spreadsheet formula with no saved
+    value) gets a warning of its own, and the line is checked without it."""
     roles = layout.roles
     values = {role: _cell(cells, roles.get(role)) for role in ("name", "formula", "molar_mass", "cas")}
     if all(_blank(v) for v in cells):
         return RowResult(row, BLANK, "", ())
     letters = layout.letters
+    unsaved: tuple[Finding, ...] = ()
+    if any(isinstance(v, UnsavedValue) for v in values.values()):
+        unsaved = tuple(
+            Finding(SAVED_VALUE, WARNING, v.message, "", role)
+            for role, v in values.items()
+            if isinstance(v, UnsavedValue)
+        )
+        values = {role: None if isinstance(v, UnsavedValue) else v for role, v in values.items()}
+        if all(_blank(values[r]) for r in values):
+            return RowResult(
+                row, NOT_CHECKED, "the cells hold spreadsheet formulas with no saved value", unsaved, letters
+            )
     if all(_blank(values[r]) for r in values):
         return RowResult(row, NOT_CHECKED, "no name, formula, molar mass or CAS RN", (), letters)
     result = _check_line_cached(
         values["formula"], values["molar_mass"], values["name"], values["cas"], mass_allowance, decimal_comma
     )
-    findings = result.findings
+    findings = unsaved + result.findings
     if any(f.check == INTERNAL for f in findings):
         return RowResult(
             row, NOT_CHECKED, "cellchem failed on the line (reported as a finding)", findings, letters
@@ -938,6 +1166,11 @@ class Summary:
         for f in r.findings:
             self.severities[f.severity] += 1
             self.checks[(f.severity, f.check)] += 1
+
+    def add_finding(self, severity: str, check: str) -> None:
+        """Count a finding that belongs to no row (a table's columns)."""
+        self.severities[severity] += 1
+        self.checks[(severity, check)] += 1
 
     def merge(self, other: Summary) -> None:
         self.rows += other.rows
@@ -987,6 +1220,7 @@ def audit_rows(
     *,
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
+    header_row: int | None = None,
 ) -> TableAudit:
     """Audit a table given as plain rows (lists of cell values), header
     included: the checks of ``cellchem audit`` without a workbook.
@@ -999,6 +1233,8 @@ def audit_rows(
         mass_allowance: g/mol allowed beyond the rounding of a stated molar
             mass (default 0.01 g/mol or 0.01 %, whichever is larger).
         decimal_comma: whether text numbers use a decimal comma.
+        header_row: the 1-based row of the header, when it is known (it is
+            found among the first 20 rows otherwise).
 
     Returns:
         A TableAudit: ``layout``, ``rows`` (a RowResult per data row, numbered
@@ -1013,7 +1249,7 @@ def audit_rows(
     [(3, 'A', 'error', 'name')]
     """
     materialised = [list(r) for r in rows]
-    layout = find_layout(materialised, columns)
+    layout = find_layout(materialised, columns, header_index=None if header_row is None else header_row - 1)
     body = materialised[layout.header_index + 1 :]
     summary = Summary()
     results = []

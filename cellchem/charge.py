@@ -571,12 +571,17 @@ def _why_radical(part: Part) -> str:
 
 @cache
 def _anions_by_elements() -> dict[frozenset[str], list[Ion]]:
-    """Catalog anions of two or more elements (single parts) by their set of
-    elements: the counts reading never makes up oxide, peroxide, carbide or
-    other one-element anions, which the reading of runs already weighs."""
+    """Catalog anions (single parts) by their set of elements, for the counts
+    reading: never a homonuclear anion (peroxide, superoxide, acetylide,
+    disulfide, azide, triiodide), carbide, nitride or hydride, which the
+    reading of runs weighs with its own rules."""
     table: dict[frozenset[str], list[Ion]] = {}
     for ion in catalog():
-        if ion.charge < 0 and len(ion.formula.parts) == 1 and len(ion.formula.counts) >= 2:
+        counts = ion.formula.counts
+        homonuclear = len(counts) == 1 and next(iter(counts.values())) != 1
+        if homonuclear or (len(counts) == 1 and ion.text in ("C", "N", "H")):
+            continue
+        if ion.charge < 0 and len(ion.formula.parts) == 1:
             table.setdefault(frozenset(ion.formula.counts), []).append(ion)
     return table
 
@@ -634,6 +639,23 @@ def _salt_by_counts(key: tuple[tuple[str, Number], ...], target: int) -> tuple[S
 
 # the water of crystallisation counted into a formula (H25Na2O16P for Na2HPO4·12H2O)
 _MERGED_WATER = "H2O (counted into the formula)"
+
+
+def water_counted_in(formula: str | Formula) -> Number | None:
+    """The water of crystallisation a salt's formula holds when it is written with the
+    water counted in (CaCl2H4O2 is CaCl2·2H2O: 2), read from its element counts: 0 when
+    it reads as a salt without water, None when it reads as no salt.
+
+    >>> water_counted_in("CuH10O9S"), water_counted_in("NaCl"), water_counted_in("C2H6O")
+    (5, 0, None)
+    """
+    f = as_formula(formula)
+    if len(f.parts) != 1 or f.has_unknown_count:
+        return None
+    shares = _salt_by_counts(counts_key(f.counts), f.charge)
+    if shares is None:
+        return None
+    return sum(x.count for x in shares if x.label == _MERGED_WATER)
 
 
 def _metal_charges(metals: tuple[tuple[str, Number], ...], total: int) -> list[list[tuple[Ion, Number]]]:
@@ -1120,4 +1142,5 @@ __all__ = [
     "net_charge",
     "oxidation_state",
     "rule_states",
+    "water_counted_in",
 ]

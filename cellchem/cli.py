@@ -127,6 +127,7 @@ def _cmd_check_formulas(args: argparse.Namespace) -> int:
 
 
 _SEVERITY_ORDER = {ERROR: 0, WARNING: 1, NOTE: 2}
+_SEVERITY_GROUPS = {ERROR: "Lines with errors", WARNING: "Lines with warnings", NOTE: "Lines with notes"}
 _ROLE_TITLES = {"molar_mass": "molar mass", "cas": "CAS RN"}
 
 
@@ -134,16 +135,21 @@ def _plural(n: int, word: str) -> str:
     return f"{n} {word}" if n == 1 else f"{n} {word}s"
 
 
-def _summary_lines(run) -> list[str]:
+def _summary_lines(run, min_severity: str = NOTE, unused: Sequence[str] = ()) -> list[str]:
     """The summary printed at the end of an audit (and written to the findings workbook)."""
     total = run.summary
     files = run.files
     sheets = sum(len(f.sheets) for f in files)
+    skipped = sum(1 for f in files if f.skipped)
     out = [
-        f"files: {len(files)} ({len(run.unusable)} could not be used); sheets and tables: {sheets};"
-        f" data rows read: {total.rows} ({total.blank} blank)"
+        f"files: {len(files)} ({len(run.unusable)} could not be used"
+        + (f", {skipped} skipped" if skipped else "")
+        + f"); sheets and tables: {sheets}; data rows read: {total.rows} ({total.blank} blank)"
     ]
     for f in files:
+        if f.skipped:
+            out.append(f"  {f.path}: note: {f.skipped}")
+            continue
         if f.error:
             out.append(f"  {f.path}: NOT READ: {f.error}")
             continue
@@ -151,6 +157,16 @@ def _summary_lines(run) -> list[str]:
             out.append(f"  {f.path}: {note}")
         for sh in f.sheets:
             where = f"{f.path}" + (f" [{sh.sheet}]" if sh.sheet else "")
+            if sh.error and sh.no_roles and len(f.sheets) > 1:
+                out.append(
+                    f"  {where}: WARNING: a table with no name or formula column, not audited: {sh.error}"
+                )
+                continue
+            if sh.error and sh.not_matched:
+                out.append(
+                    f"  {where}: note: not audited, the columns given do not match this sheet: {sh.error}"
+                )
+                continue
             if sh.error and sh.no_table and len(f.sheets) > 1:
                 out.append(f"  {where}: not audited: no header row naming a name or formula column")
                 continue
@@ -166,6 +182,7 @@ def _summary_lines(run) -> list[str]:
                 f"  {f.path}: hidden sheets not read: {', '.join(repr(h) for h in f.hidden)} (--hidden"
                 " reads them)"
             )
+    out.extend(f"  note: {u}" for u in unused)
     out.append(f"lines checked: {total.checked}")
     not_checked = sum(total.not_checked.values())
     out.append(f"lines not checked: {not_checked}")
@@ -175,6 +192,12 @@ def _summary_lines(run) -> list[str]:
     out.append(
         f"findings: {_plural(sev[ERROR], 'error')}, {_plural(sev[WARNING], 'warning')},"
         f" {_plural(sev[NOTE], 'note')}"
+        + (
+            f" (all counted; {'notes are' if min_severity == WARNING else 'warnings and notes are'} not"
+            f" printed or reported: --min-severity {min_severity})"
+            if min_severity != NOTE
+            else ""
+        )
     )
     for (severity, check), n in sorted(
         total.checks.items(), key=lambda kv: (_SEVERITY_ORDER[kv[0][0]], -kv[1])
@@ -183,16 +206,74 @@ def _summary_lines(run) -> list[str]:
     return out
 
 
+def _kept(records, min_severity: str) -> list:
+    limit = _SEVERITY_ORDER[min_severity]
+    return [r for r in records if _SEVERITY_ORDER[r.severity] <= limit]
+
+
+def _column_key(column: str) -> tuple[int, str]:
+    return (len(column), column)
+
+
+def report_order(run, records) -> list:
+    """Findings sorted for the reports: by severity, then file (in the order
+    given), sheet (in workbook order), row and column."""
+    order = run.order()
+    return sorted(
+        records,
+        key=lambda r: (
+            _SEVERITY_ORDER[r.severity],
+            order.get((r.file, r.sheet), len(order)),
+            r.row,
+            _column_key(r.column),
+        ),
+    )
+
+
+def print_order(run, records) -> list[tuple[str, list]]:
+    """Findings grouped for printing: each line's findings together (by
+    severity, then column), lines grouped by their worst finding (errors
+    first), in file, sheet and row order within a group. Returns
+    (severity, findings) for each group that has findings."""
+    order = run.order()
+    lines: dict[tuple, list] = {}
+    for r in records:
+        lines.setdefault((order.get((r.file, r.sheet), len(order)), r.row, r.file, r.sheet), []).append(r)
+    groups: dict[str, list] = {ERROR: [], WARNING: [], NOTE: []}
+    for key in sorted(lines, key=lambda k: k[:2]):
+        found = sorted(lines[key], key=lambda r: (_SEVERITY_ORDER[r.severity], _column_key(r.column)))
+        groups[found[0].severity].extend(found)
+    return [(severity, found) for severity, found in groups.items() if found]
+
+
+def _unused_sheet_options(run, options) -> list[str]:
+    """Per-sheet --column and --header-row options that named no sheet of any file."""
+    seen = set()
+    for f in run.files:
+        seen.update(s.sheet.casefold() for s in f.sheets)
+        seen.update(h.casefold() for h in f.hidden)
+    return [
+        f"--column or --header-row for sheet '{name}': no file read has a sheet of that name"
+        for name in sorted(options.sheets_named())
+        if name.casefold() not in seen
+    ]
+
+
+def _column_options(args: argparse.Namespace):
+    from .columns import read_column_options
+
+    return read_column_options(args.column or [], args.header_row or [])
+
+
 def _cmd_audit(args: argparse.Namespace) -> int:
     from .adapters.audit_files import AuditRun, Options, audit_file
     from .adapters.files import UnusableFile
     from .adapters.precheck import require_defusedxml
-    from .columns import read_overrides
     from .errors import CellchemError
 
     try:
         require_defusedxml()
-        columns = read_overrides(args.column or [])
+        column_options = _column_options(args)
     except (CellchemError, UnusableFile) as exc:
         raise UsageError(str(exc)) from None
     for target in (args.report, args.output):
@@ -213,67 +294,76 @@ def _cmd_audit(args: argparse.Namespace) -> int:
     if args.output and Path(args.output).suffix.lower() != ".xlsx":
         raise UsageError(f"-o '{args.output}': the findings workbook must be an .xlsx file")
     options = Options(
-        columns=columns,
+        columns=dict(column_options.general),
         sheet=args.sheet,
         hidden=args.hidden,
         encoding=args.encoding,
         delimiter=args.delimiter,
         mass_allowance=args.mass_allowance,
+        column_options=column_options,
     )
     run = AuditRun()
     for f in args.files:
         audit_file(f, options, run)
     out = sys.stdout
-    shown = sorted(run.findings, key=lambda r: (_SEVERITY_ORDER[r.severity], r.file, r.sheet, r.row))
-    limit = len(shown) if args.show == "all" else int(args.show)
-
-    for r in shown[:limit]:
-        where = r.file + (f" [{r.sheet}]" if r.sheet else "") + f" {r.column}{r.row}"
-        fix = f"  -> {r.suggestion}" if r.suggestion else ""
-        out.write(f"{where}  {r.severity}  {r.check}: {r.message}{fix}\n")
-    if len(shown) > limit:
-        out.write(f"... {len(shown) - limit} more findings (--show all prints them; --report writes them)\n")
-    if shown[:limit]:
+    kept = _kept(run.findings, args.min_severity)
+    groups = print_order(run, kept)
+    total = sum(len(found) for _severity, found in groups)
+    limit = total if args.show == "all" else int(args.show)
+    printed = 0
+    for severity, found in groups:
+        if printed >= limit:
+            break
+        out.write(f"{_SEVERITY_GROUPS[severity]}:\n")
+        for r in found[: limit - printed]:
+            where = r.file + (f" [{r.sheet}]" if r.sheet else "") + f" {r.column}{r.row}"
+            fix = f"  -> {r.suggestion}" if r.suggestion else ""
+            out.write(f"{where}  {r.severity}  {r.check}: {r.message}{fix}\n")
+            printed += 1
         out.write("\n")
-    lines = _summary_lines(run)
+    if total > printed:
+        out.write(f"... {total - printed} more findings (--show all prints them; --report writes them)\n\n")
+    lines = _summary_lines(run, args.min_severity, _unused_sheet_options(run, column_options))
     out.write("\n".join(lines) + "\n")
     from .adapters import reports
 
+    ordered = report_order(run, kept)
     try:
         if args.report:
             if args.report.lower().endswith(".json"):
-                reports.write_json(args.report, run.findings)
+                reports.write_json(args.report, ordered)
             else:
-                reports.write_csv(args.report, run.findings)
+                reports.write_csv(args.report, ordered)
             out.write(f"report written: {args.report}\n")
         if args.output:
-            reports.write_workbook(args.output, run.findings, [(line.strip(), "") for line in lines])
+            reports.write_workbook(args.output, ordered, [(line.strip(), "") for line in lines])
             out.write(f"findings workbook written: {args.output}\n")
     except OSError as exc:
         raise UsageError(f"could not write the report: {exc.strerror or exc}") from None
     if args.annotate:
-        _annotate(args, run, out)
+        _annotate(args, run, ordered, column_options, out)
     if run.unusable:
         return EXIT_USAGE
     return EXIT_FINDINGS if run.summary.severities[ERROR] else EXIT_CLEAN
 
 
-def _annotate(args: argparse.Namespace, run, out) -> None:
+def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> None:
     """Write an annotated copy of each usable file: the verdict column, and for
     a workbook a sheet of its findings."""
     from .adapters.files import UnusableFile
     from .adapters.fill import FillOptions, derived_output, fill_file
-    from .columns import read_overrides
+    from .adapters.package import FINDINGS_HEADERS
     from .fill import read_columns
 
-    usable = [f for f in run.files if not f.error]
+    usable = [f for f in run.files if not f.error and not f.skipped]
     if isinstance(args.annotate, str) and len(args.files) > 1:
         raise UsageError("--annotate PATH names one output: give one input file, or --annotate alone")
     options = FillOptions(
         columns=read_columns("verdict"),
-        overrides=read_overrides(args.column or []),
+        overrides=dict(column_options.general),
         sheet=args.sheet,
         mass_allowance=args.mass_allowance,
+        column_options=column_options,
     )
     for f in usable:
         src = Path(f.path)
@@ -282,12 +372,13 @@ def _annotate(args: argparse.Namespace, run, out) -> None:
             raise UsageError(f"--annotate '{target}' is the input; cellchem never writes the input file")
         extra = None
         if f.kind == "xlsx":
-            rows: list[list[object]] = [
-                ["Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion"]
-            ]
-            for r in run.findings:
+            rows: list[list[object]] = [list(FINDINGS_HEADERS)]
+            for r in ordered:
                 if r.file == f.path:
-                    rows.append([r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion])
+                    cell = f"{r.column or 'A'}{r.row}" if r.row else ""
+                    rows.append(
+                        [cell, r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion]
+                    )
             extra = ("cellchem findings", rows)
         try:
             fill_file(src, target, options, extra)
@@ -301,18 +392,19 @@ def _cmd_fill(args: argparse.Namespace) -> int:
     from .adapters.files import UnusableFile
     from .adapters.fill import FillOptions, derived_output, fill_file
     from .adapters.precheck import require_defusedxml
-    from .columns import read_overrides
     from .errors import CellchemError
     from .fill import read_columns
 
     try:
         require_defusedxml()
+        column_options = _column_options(args)
         options = FillOptions(
             columns=read_columns(args.add),
-            overrides=read_overrides(args.column or []),
+            overrides=dict(column_options.general),
             sheet=args.sheet,
             overwrite=args.overwrite,
             mass_allowance=args.mass_allowance,
+            column_options=column_options,
         )
     except (CellchemError, UnusableFile) as exc:
         raise UsageError(str(exc)) from None
@@ -331,6 +423,11 @@ def _cmd_fill(args: argparse.Namespace) -> int:
     w(f"written: {report.output} (from {report.source},{where} header row {report.header_row})\n")
     w("columns: " + ", ".join(f"{letter} '{header}'" for letter, header in report.columns) + "\n")
     w(f"lines filled: {report.filled}\n")
+    if report.partly:
+        w(
+            f"  of which filled in part: {report.partly} (the name does not say the water of crystallisation:"
+            " only cations and anions)\n"
+        )
     not_filled = sum(report.not_filled.values())
     w(
         f"lines not filled: {not_filled}"
@@ -388,7 +485,9 @@ def build_parser() -> argparse.ArgumentParser:
             " the\n"
             "formula reads and balances, that the name describes the formula, that the stated molar mass\n"
             "matches, and that the CAS RN has a valid check digit. Files are only read, never changed.\n\n"
-            "Example: cellchem audit workbooks/demo-inventory.xlsx --report findings.json\n\n"
+            "Example: cellchem audit workbooks/demo-inventory.xlsx --report findings.json\n"
+            "         cellchem audit stock.xlsx --column 'Old stock:formula=B' --min-severity warning"
+            " -o findings.xlsx\n\n"
             "Exit codes: 0 no errors found, 1 findings of severity error, 2 a file or the command line\n"
             "could not be used."
         ),
@@ -403,10 +502,27 @@ def build_parser() -> argparse.ArgumentParser:
     audit.add_argument(
         "--column",
         action="append",
-        metavar="ROLE=HEADER_OR_LETTER",
+        metavar="[SHEET:]ROLE=HEADER_OR_LETTER",
         help="say which column holds a role when its heading is not recognised; roles: name, formula,"
-        " molar_mass, cas, concentration, quantity, unit. Repeatable, e.g. --column formula=C"
-        " --column 'molar_mass=Mol. Wt.'",
+        " molar_mass, cas, concentration, quantity, unit. Without SHEET it applies to every sheet (a"
+        " sheet that lacks the heading is noted as not matched, not audited); with SHEET only to that"
+        " sheet, and it wins there. Repeatable, e.g. --column formula=C --column 'molar_mass=Mol. Wt.'"
+        " --column 'Old stock:formula=B'",
+    )
+    audit.add_argument(
+        "--header-row",
+        action="append",
+        metavar="[SHEET:]N",
+        help="the 1-based row of the header (the line number in a CSV/TXT file), when it is not found"
+        " among the first 20 rows or another row is wanted; with SHEET for that sheet only;"
+        " e.g. --header-row 4 --header-row 'Old stock:1'",
+    )
+    audit.add_argument(
+        "--min-severity",
+        choices=(ERROR, WARNING, NOTE),
+        default=NOTE,
+        help="the least severe findings printed and written to the reports (default note: all); the"
+        " summary counts every finding, e.g. --min-severity warning",
     )
     audit.add_argument(
         "--report",
@@ -453,7 +569,9 @@ def build_parser() -> argparse.ArgumentParser:
         "--show",
         default="50",
         metavar="N",
-        help="how many findings to print before the summary (default 50; 'all' or 0), e.g. --show all",
+        help="how many findings to print before the summary (default 50; 'all' or 0). Lines with errors"
+        " come first, then lines with warnings, then notes; each line's findings are printed together,"
+        " lines in file, sheet and row order; e.g. --show all",
     )
     audit.set_defaults(run=_cmd_audit)
 
@@ -465,8 +583,11 @@ def build_parser() -> argparse.ArgumentParser:
             "Write a copy of FILE with computed columns added after the table: canonical formula,"
             " systematic\n"
             "name, molar mass, water of crystallisation, cations and anions (or the columns --add names).\n"
-            "Everything else in the workbook is kept as it was; the input is never written.\n\n"
-            "Example: cellchem fill workbooks/demo-inventory.xlsx -o inventory-filled.xlsx\n\n"
+            "Everything else in the workbook is kept as it was; the input is never written. Nothing is\n"
+            "written that a cell of the line contradicts, and nothing the line does not fix: a line whose\n"
+            "cells disagree gets no values, and the check column (--add verdict) says why.\n\n"
+            "Example: cellchem fill workbooks/demo-inventory.xlsx -o inventory-filled.xlsx\n"
+            "         cellchem fill stock.xlsx --sheet Stock --header-row 3 --column formula=D\n\n"
             "Exit codes: 0 written, 1 written but some lines could not be filled, 2 nothing written."
         ),
     )
@@ -492,8 +613,15 @@ def build_parser() -> argparse.ArgumentParser:
     fill.add_argument(
         "--column",
         action="append",
-        metavar="ROLE=HEADER_OR_LETTER",
-        help="say which column holds a role, as for audit, e.g. --column formula=C",
+        metavar="[SHEET:]ROLE=HEADER_OR_LETTER",
+        help="say which column holds a role, as for audit, e.g. --column formula=C or"
+        " --column 'Stock:formula=C'",
+    )
+    fill.add_argument(
+        "--header-row",
+        action="append",
+        metavar="[SHEET:]N",
+        help="the 1-based row of the header, as for audit, e.g. --header-row 4",
     )
     fill.add_argument(
         "--mass-allowance", type=float, metavar="G_PER_MOL", help="as for audit, e.g. --mass-allowance 0.05"

@@ -2,23 +2,49 @@
 
 For each line of a table the compound is read from the formula cell (or, when
 it is empty, from the name), checked as the audit checks it, and the asked-for
-columns are computed from it. A line whose name and formula disagree, whose
-formula does not read or balance, or whose name leaves a charge open with no
-formula to settle it, gets no computed values: filling a column from one of two
-cells that disagree would write a value that looks right and may be wrong. The
-verdict column says why.
+columns are computed from it. Nothing is written that a cell of the line
+contradicts, and nothing the line does not fix:
+
+- a line with an error of the audit other than a molar-mass one (its name
+  and formula disagree, its formula does not read or balance, its CAS RN is
+  wrong), or whose name leaves a charge open with no formula to settle it,
+  gets no computed values: filling a column from one of two cells that
+  disagree would write a value that looks right and may be wrong;
+- a stated molar mass that does not match the compound is a second opinion:
+  the line is filled only when its name and formula both say the same
+  compound (then the stated value is the one to correct), never on the word
+  of one cell against the molar mass;
+- when the table's formula or name column is not known, the line's other
+  cells are looked at: one that reads as a formula or a name of another
+  compound stops the line (``others``);
+- a compound read from a name alone, when the name does not say its water of
+  crystallisation and the compound has hydrates that exist, gets only the
+  columns that do not depend on the water (cations, anions);
+- a cell holding a spreadsheet formula with no saved value
+  (``audit.UnsavedValue``) is a cell whose content is not known: the line is
+  not filled.
+
+The verdict column says why.
 """
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
-from .audit import ERROR, _blank, _check_line_cached
+from .audit import (
+    ERROR,
+    UnsavedValue,
+    _blank,
+    _check_line_cached,
+    mass_tolerance,
+    read_stated_mass,
+)
 from .errors import CellchemError
 from .formula import Formula, parse_formula
 from .mass import mass_fraction, molar_mass
 from .memo import Memo, typed
-from .names import name_from_formula, read_name
+from .names import known_hydrates, name_from_formula, read_name, same_substance
 from .solutions import ionic_strength, ions_of
 
 TEXT = "text"
@@ -97,6 +123,7 @@ class FillLine:
     values: tuple[object, ...]
     filled: bool
     verdict: str
+    partly: str = ""  # why only some columns were filled
 
 
 def _verdict(findings) -> str:
@@ -142,6 +169,7 @@ def fill_line(
     concentration: object = None,
     unit: object = None,
     *,
+    others: Sequence[object] = (),
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
 ) -> FillLine:
@@ -152,6 +180,9 @@ def fill_line(
         formula, name, molar_mass_cell, cas: the line's cells (plain values).
         concentration, unit: the concentration cell and a unit cell, for the
             ionic strength (a concentration without a unit gives none).
+        others: the line's cells in columns of no known role, given when the
+            table's formula or name column is not known: a cell that reads as
+            a formula or a name of another compound stops the line.
 
     Returns:
         A FillLine.
@@ -161,43 +192,151 @@ def fill_line(
     ('CuSO4·5H2O',)
     >>> fill_line(cols, "FeCl3", "iron(II) chloride").filled
     False
+    >>> fill_line(cols, None, "Iron(III) sulfate", others=("FeSO4",)).filled
+    False
     """
     args = (formula, name, molar_mass_cell, cas, concentration, unit)
+    if any(isinstance(v, UnsavedValue) for v in args[:4]):
+        verdict = next(v for v in args[:4] if isinstance(v, UnsavedValue)).message
+        return FillLine(tuple(verdict if c.key == "verdict" else None for c in columns), False, verdict)
+    seen = tuple(str(o).strip() for o in others if isinstance(o, str) and o.strip())
     return _LINES.get(
-        (columns, typed(*args), mass_allowance, decimal_comma),
-        lambda: _fill_line(columns, *args, mass_allowance, decimal_comma),
+        (columns, typed(*args), seen, mass_allowance, decimal_comma),
+        lambda: _fill_line(columns, *args, seen, mass_allowance, decimal_comma),
     )
 
 
 _LINES: Memo[FillLine] = Memo(50_000)
 
 
+_WATER_FREE = frozenset({"cations", "anions", "verdict"})  # columns the water of crystallisation leaves alone
+
+
+def _same(a: Formula, b: Formula) -> bool:
+    try:
+        return a.water == b.water and same_substance(a, b)
+    except Exception:  # a formula the comparison cannot take: not the same
+        return False
+
+
+def _as_formula(text: str) -> Formula | None:
+    """A cell read as the formula of a compound, when it reads as one and looks
+    like one. Codes and words that happen to read as formulas are left out: a
+    word in capitals ('OK', 'NO'), a formula of one element ('No', 'In', 'B14'
+    on a shelf label) and a formula with a charge ('KF-0001', a stock number)."""
+    if text.isalpha() and text.isupper():
+        return None
+    try:
+        formula = parse_formula(text)
+    except Exception:  # not a formula
+        return None
+    if formula.charge or len(formula.counts) < 2:
+        return None
+    return formula
+
+
+def _as_named(text: str) -> Formula | None:
+    try:
+        return parse_formula(read_name(text).formula)
+    except Exception:  # not a name cellchem reads
+        return None
+
+
+def _contradicting(compound: Formula, others: Sequence[str]) -> str:
+    """The first of the line's other cells that reads as another compound, as
+    a reason; '' when none does."""
+    for text in others:
+        other = _as_formula(text)
+        kind = "formula"
+        if other is None:
+            other, kind = _as_named(text), "name"
+        if other is not None and not _same(other, compound):
+            return (
+                f"not filled: the cell {text!r} reads as the {kind} of {other.text()}, not"
+                f" {compound.text()}; the table's formula or name column is not known, so which cell is"
+                " right cannot be told (name the columns with --column)"
+            )
+    return ""
+
+
+def _mass_contradicts(
+    compound: Formula, cell: object, allowance: float | None, decimal_comma: bool | None
+) -> str:
+    """A reason when the stated molar mass does not match the compound; ''
+    when it matches, is empty or is not a molar mass."""
+    try:
+        stated = read_stated_mass(cell, decimal_comma)
+        if stated is None or compound.has_unknown_count:
+            return ""
+        mass = float(molar_mass(compound))
+    except Exception:  # not a molar mass (the audit says so), or none to compare
+        return ""
+    if abs(stated[0] - mass) <= mass_tolerance(stated[0], stated[1], allowance):
+        return ""
+    return (
+        f"not filled: the stated molar mass {stated[0]:g} g/mol does not match {compound.text()},"
+        f" {mass:.2f} g/mol, and the line has no second cell to say which is right"
+    )
+
+
+def _name_fixes_water(text: str, compound: Formula) -> bool:
+    """Whether a name fixes the water of crystallisation of the compound read
+    from it: it names a hydrate, says anhydrous, is a trivial name of one
+    form, or the compound has no hydrate a table knows."""
+    try:
+        reading = read_name(text)
+        if reading.water != 0 or any(q.kind == "hydrate" for q in reading.qualifiers):
+            return True
+        if any(form.startswith("trivial name") for form in reading.forms):
+            return True
+        return not known_hydrates(compound.anhydrous())
+    except Exception:  # the name was read once already; a failure here fixes nothing
+        return False
+
+
 def _fill_line(
-    columns, formula, name, molar_mass_cell, cas, concentration, unit, mass_allowance, decimal_comma
+    columns, formula, name, molar_mass_cell, cas, concentration, unit, others, mass_allowance, decimal_comma
 ):
     result = _check_line_cached(formula, molar_mass_cell, name, cas, mass_allowance, decimal_comma)
     verdict = _verdict(result.findings)
     compound: Formula | None = None
-    blocking = [
-        f
-        for f in result.findings
-        if f.severity == ERROR and f.check in ("formula", "name", "name-hydrate", "charge")
-    ]
+    # every error but a molar-mass one stops the line (a stated molar mass is weighed below): the
+    # cells disagree, or a cell does not read
+    blocking = [f for f in result.findings if f.severity == ERROR and f.check != "molar-mass"]
+    from_name = False
     if not _blank(formula):
         if result.formula is not None and not blocking:
             compound = result.formula
     elif not _blank(name):
         try:
             compound = parse_formula(read_name(str(name)).formula)
+            from_name = True
         except Exception:  # a refusal, or a failure of cellchem's own: nothing is filled
             compound = None
-    if compound is None:
+    reason = ""
+    if compound is not None:
+        reason = _contradicting(compound, others)
+        if not reason:
+            named = None if _blank(name) or _blank(formula) else _as_named(str(name))
+            if named is None or not _same(named, compound):
+                reason = _mass_contradicts(compound, molar_mass_cell, mass_allowance, decimal_comma)
+    if compound is None or reason:
+        verdict = reason + (f" ({verdict})" if reason and verdict != "ok" else "") if reason else verdict
         values = tuple(verdict if c.key == "verdict" else None for c in columns)
         return FillLine(values, False, verdict)
+    partly = ""
+    if from_name and not _name_fixes_water(str(name), compound):
+        partly = (
+            f"the name {str(name).strip()!r} does not say the water of crystallisation, and"
+            f" {compound.text()} has hydrates: only the columns that do not depend on it were filled"
+        )
     values: list[object] = []
     for c in columns:
-        values.append(_value(c, compound, concentration, unit, verdict))
-    return FillLine(tuple(values), True, verdict)
+        if partly and c.key not in _WATER_FREE:
+            values.append(None)
+            continue
+        values.append(_value(c, compound, concentration, unit, verdict if not partly else f"note: {partly}"))
+    return FillLine(tuple(values), True, verdict, partly)
 
 
 def _value(c: FillColumn, f: Formula, concentration: object, unit: object, verdict: str) -> object:

@@ -305,6 +305,13 @@ def _fold(text: str) -> str:
     return s
 
 
+def fold_name(text: str) -> str:
+    """A name folded for exact comparison: case, Unicode forms, quotes, dashes,
+    spaces, the spellings sulph/sulf, aluminum/aluminium, cesium/caesium, and
+    Stock numbers written without a space ('copper (II)' is 'copper(ii)')."""
+    return _stock(_fold(text))[0]
+
+
 def _spelling_forms(text: str) -> list[str]:
     low = unicodedata.normalize("NFKC", text).casefold()
     forms = []
@@ -2595,6 +2602,7 @@ __all__ = [
     "Component",
     "NameReading",
     "Qualifier",
+    "fold_name",
     "formula_from_name",
     "name_from_formula",
     "read_name",

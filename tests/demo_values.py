@@ -14,6 +14,7 @@ from cellchem import (
     mass_fraction,
     molar_mass,
     name_from_formula,
+    substance,
 )
 
 
@@ -29,15 +30,18 @@ def check_demo_values(cell):
     assert cell("B17") == -2
     assert cell("B18") == 7
     assert cell("B19") == False  # noqa: E712 (Calc shows FALSE as 0)
-    assert cell("B20").startswith("error: the name 'Sodium chloride' reads as NaCl")
+    # the name, the CAS RN and the molar mass agree on NaCl; the formula cell NaCl2 is blamed
+    assert cell("B20").startswith("error: the name 'Sodium chloride', CAS 7647-14-5")
+    assert "so the formula is the cell to check" in cell("B20")
     assert cell("B21") == True  # noqa: E712 (Calc shows TRUE as 1)
-    assert cell("B22") == pytest.approx(float(ionic_strength([("MgCl2", 0.1)])))
-    assert cell("B23") == pytest.approx(float(activity_coefficient("Ca2+", 0.01, "extended")))
-    assert cell("B24") == pytest.approx(float(conductivity([("KCl", 0.01)])))
-    assert cell("B25") == pytest.approx(
+    assert cell("B22") == substance("7758-99-8").formula
+    assert cell("B23") == pytest.approx(float(ionic_strength([("MgCl2", 0.1)])))
+    assert cell("B24") == pytest.approx(float(activity_coefficient("Ca2+", 0.01, "extended")))
+    assert cell("B25") == pytest.approx(float(conductivity([("KCl", 0.01)])))
+    assert cell("B26") == pytest.approx(
         mass_for_solution("CuSO4", 0.1, "250 mL", shelf_form="CuSO4·5H2O").mass
     )
-    assert cell("B26") == pytest.approx(
+    assert cell("B27") == pytest.approx(
         float(convert_concentration(37, "% w/w", "mol/L", "HCl", density=1.18))
     )
-    assert "unknown element symbol 'Xx'" in cell("B27")
+    assert "unknown element symbol 'Xx'" in cell("B28")

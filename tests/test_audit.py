@@ -121,3 +121,34 @@ def test_tolerance_follows_printed_decimals():
     assert mass_tolerance(58.44, 2) == pytest.approx(0.015)
     assert mass_tolerance(58.4, 1) == pytest.approx(0.06)
     assert mass_tolerance(474.4, 1) == pytest.approx(0.05 + 0.04744)
+
+
+# -- tables of rows -------------------------------------------------------------------------------
+
+
+def test_a_formula_cell_with_no_saved_value_is_reported_as_such():
+    from cellchem.audit import NO_SAVED_VALUE, NOT_RECALCULATED, SAVED_VALUE, audit_row
+    from cellchem.columns import find_layout
+
+    layout = find_layout([["Name", "Formula", "MW"]])
+    row = audit_row(["sodium chloride", "NaCl", NO_SAVED_VALUE], layout, 2)
+    assert [(f.check, f.severity, row.column_of(f)) for f in row.findings] == [(SAVED_VALUE, WARNING, "C")]
+    assert "spreadsheet formula with no saved value: open and save the file" in row.findings[0].message
+    assert row.status == "checked"  # the name and the formula are still checked against each other
+    # the same line with a wrong formula still gets its error: the unread cell hides nothing else
+    row = audit_row(["sodium chloride", "KCl", NO_SAVED_VALUE], layout, 2)
+    assert {f.check for f in row.findings} >= {SAVED_VALUE} and any(f.severity == ERROR for f in row.findings)
+    assert not any("is not a molar mass" in f.message for f in row.findings)
+    # every cell a formula without a value: not checked, and said so
+    row = audit_row([NOT_RECALCULATED, NOT_RECALCULATED, None], layout, 3)
+    assert row.status == "not checked" and "no saved value" in row.reason
+    assert [f.field for f in row.findings] == ["name", "formula"]
+    assert "recalculated" in row.findings[0].message
+
+
+def test_audit_rows_with_a_header_row_given():
+    from cellchem.audit import audit_rows
+
+    rows = [["x"]] * 22 + [["Name", "Formula", "MW"], ["sodium chloride", "NaCl", "10"]]
+    audit = audit_rows(rows, header_row=23)
+    assert [(row, col, f.check) for row, col, f in audit.findings] == [(24, "C", "molar-mass")]

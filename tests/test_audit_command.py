@@ -119,8 +119,10 @@ def test_the_messages_say_how_name_and_formula_differ(demo_report):
     assert "a different ion: the name has sulfite (SO3 2-), the formula sulfate (SO4 2-)" in text
     assert "missing parentheses" in text
     assert "159.61 g/mol is the molar mass of CuSO4" in text
-    assert "the name and the stated molar mass agree, so the formula is the cell to check" in text
-    assert "the formula and the stated molar mass agree, so the name is the cell to check" in text
+    assert "so the formula is the cell to check" in text
+    assert "so the name is the cell to check" in text
+    # the substance table: a CAS RN checked against the line's substance (CRC, from memory)
+    assert "agree on" in text
     assert "call for 5" in text or "call for" in text
 
 
@@ -392,9 +394,18 @@ def test_help_explains_each_option_with_an_example(capsys):
         "--delimiter",
         "--mass-allowance",
         "--show",
+        "--header-row",
+        "--min-severity",
+        "[SHEET:]ROLE=HEADER_OR_LETTER",
+        "[SHEET:]N",
     ):
         assert option in out
-    assert out.count("e.g.") >= 8
+    assert out.count("e.g.") >= 10
+    assert main(["fill", "--help"]) == 0
+    out = " ".join(capsys.readouterr().out.split())
+    for option in ("--column", "--header-row", "--add", "--sheet", "--overwrite"):
+        assert option in out
+    assert "e.g. --header-row 4" in out and "--column 'Stock:formula=C'" in out
 
 
 def test_an_entity_declaration_in_any_part_is_refused(tmp_path, capsys):
@@ -412,3 +423,399 @@ def test_an_entity_declaration_in_any_part_is_refused(tmp_path, capsys):
     code, out, _ = run([bomb], capsys)
     assert code == 2
     assert "entity declaration in 'xl/sharedStrings.xml'" in out
+
+
+# -- headings, header rows and columns per sheet --------------------------------------------------
+
+
+def _book(path: Path, sheets: dict[str, list[list[object]]]) -> Path:
+    wb = openpyxl.Workbook()
+    wb.remove(wb.active)
+    for title, rows in sheets.items():
+        ws = wb.create_sheet(title)
+        for r in rows:
+            ws.append(r)
+    wb.save(path)
+    return path
+
+
+def test_german_headings_and_a_table_with_no_name_or_formula_column(tmp_path, capsys):
+    book = _book(
+        tmp_path / "bestand.xlsx",
+        {
+            "Bestand": [
+                ["Bezeichnung", "Summenformel", "Molmasse", "CAS-Nummer", "Menge", "Einheit"],
+                ["Sodium chloride", "NaCl", 58.44, "7647-14-5", 500, "g"],
+                # KCl is 74.55 g/mol (CRC Handbook, from memory), not 80
+                ["Potassium chloride", "KCl", 80, "7447-40-7", 250, "g"],
+            ],
+            "Preise": [
+                ["Art.-Nr.", "Menge", "Einheit", "Preis"],
+                ["A-1", 1, "kg", 12.5],
+                ["A-2", 5, "kg", 40],
+            ],
+            "Hinweise": [["Invented data for a test."], ["Nothing here is a table."]],
+        },
+    )
+    report = tmp_path / "r.json"
+    code, out, _ = run([book, "--report", report, "--show", "0"], capsys)
+    assert code == 1
+    assert (
+        "[Bestand]: header row 1; name A 'Bezeichnung', formula B 'Summenformel', molar mass C 'Molmasse'"
+        in out
+    )
+    rows = findings(report)
+    assert ("Bestand", 3, "C", "molar-mass", "error") in [
+        (r["sheet"], r["row"], r["column"], r["check"], r["severity"]) for r in rows
+    ]
+    # the price sheet is a table the audit cannot check: a warning, in the summary and the report
+    assert "[Preise]: WARNING: a table with no name or formula column, not audited" in out
+    warned = [r for r in rows if r["check"] == "columns"]
+    assert [(r["sheet"], r["row"], r["severity"]) for r in warned] == [("Preise", 1, "warning")]
+    assert "'Art.-Nr.', 'Menge', 'Einheit', 'Preis'" in warned[0]["message"]
+    # the notes sheet is no table: no warning
+    assert "[Hinweise]: not audited: no header row" in out
+    assert "1 warning" in out and "warning  columns" in out
+
+
+def test_header_row_beyond_the_first_20_rows(tmp_path, capsys):
+    rows = [[f"note {i}"] for i in range(24)] + [["Name", "Formula", "MW"], ["Sodium chloride", "NaCl", 80]]
+    book = _book(
+        tmp_path / "late.xlsx", {"Stock": rows, "Other": [["Name", "Formula"], ["Sodium chloride", "NaCl"]]}
+    )
+    code, out, _ = run([book, "--sheet", "Stock"], capsys)
+    assert code == 2 and "no header row" in out
+    for option in ("25", "Stock:25"):
+        report = tmp_path / f"r{option.replace(':', '')}.json"
+        code, out, _ = run([book, "--header-row", option, "--report", report], capsys)
+        assert code == 1, out
+        assert "[Stock]: header row 25" in out
+        assert [(r["sheet"], r["row"], r["column"]) for r in findings(report)] == [("Stock", 26, "C")]
+    # a header row given for every sheet that another sheet does not have there
+    code, out, _ = run([book, "--header-row", "25"], capsys)
+    assert "[Other]: not audited" in out
+    code, out, err = run([book, "--header-row", "Stock:zero"], capsys)
+    assert code == 2 and "expected a row number" in err
+
+
+def test_columns_per_sheet_and_columns_for_every_sheet(tmp_path, capsys):
+    book = _book(
+        tmp_path / "two.xlsx",
+        {
+            # the formula heading of this sheet is not one cellchem knows
+            "New": [["Item", "MW", "Zusammensetzung"], ["Sodium chloride", 58.44, "NaCl"]],
+            # NaCl is 58.44 g/mol (CRC Handbook, from memory): 100 is wrong
+            "Old": [["Item", "Formula", "MW"], ["Sodium chloride", "NaCl", 100]],
+        },
+    )
+    report = tmp_path / "r.json"
+    # a letter for every sheet: column C is the molar mass of 'Old', so 'Old' is not matched (a note), and its
+    # molar masses are never read as formulas
+    code, out, _ = run([book, "--column", "formula=C", "--report", report], capsys)
+    assert code == 0, out
+    assert "[Old]: note: not audited, the columns given do not match this sheet" in out
+    assert "column C is headed 'MW' here, which is the molar mass column" in out
+    assert "[New]: header row 1; name A 'Item', molar mass B 'MW', formula C 'Zusammensetzung'" in out
+    assert findings(report) == []
+    # a heading for every sheet that 'Old' lacks: not matched, not audited with other columns
+    code, out, _ = run([book, "--column", "formula=Zusammensetzung", "--report", report], capsys)
+    assert code == 0 and "[Old]: note: not audited" in out and "no column headed 'Zusammensetzung'" in out
+    # the sheet's own column wins on its sheet: 'Old' is audited and its wrong molar mass found
+    code, out, _ = run(
+        [book, "--column", "formula=C", "--column", "Old:formula=B", "--report", report], capsys
+    )
+    assert code == 1, out
+    assert [(r["sheet"], r["row"], r["column"], r["check"]) for r in findings(report)] == [
+        ("Old", 2, "C", "molar-mass")
+    ]
+    # a sheet name no file has is said
+    code, out, _ = run([book, "--column", "Olf:formula=B"], capsys)
+    assert "--column or --header-row for sheet 'Olf': no file read has a sheet of that name" in out
+    # one column, two roles
+    code, out, err = run([book, "--column", "formula=C", "--column", "name=c"], capsys)
+    assert code == 2 and "one role" in err
+
+
+def test_a_column_for_every_sheet_fits_a_workbook_with_one_table(tmp_path, capsys):
+    # 'Read me' holds no table, so the column given is meant for 'Stock', where it wins over the heading
+    book = _book(
+        tmp_path / "one.xlsx",
+        {
+            "Read me": [["Invented data for a test."]],
+            "Stock": [["Item", "Formula", "Checked formula"], ["Sodium chloride", "NaCl2", "NaCl"]],
+        },
+    )
+    code, out, _ = run([book, "--column", "formula=C"], capsys)
+    assert code == 0, out
+    assert "column B 'Formula' is not read as formula: --column names column C" in out
+
+
+# -- what is printed, in which order, and what the reports hold -----------------------------------
+
+ORDER_TABLE = (
+    "Name,Formula,MW\n"
+    "Potasium nitrate,KNO3,101.10\n"  # row 2: a misspelled name (a note)
+    "Sodium sulfite,Na2SO4,142.04\n"  # row 3: an error
+    "Magnesium sulfate,MgSO4·7H2O,246.47\n"  # row 4: a name silent about the hydrate (a warning)
+    "Sodium chloride,NaCl,80\n"  # row 5: an error
+)
+
+
+def _printed_rows(out: str, path: Path) -> list[tuple[int, str]]:
+    """(row, severity) of each printed finding, in order."""
+    got = []
+    for line in out.splitlines():
+        if line.startswith(str(path) + " "):
+            where, severity = line.split("  ")[:2]
+            got.append((int(where.rsplit(" ", 1)[1][1:]), severity))
+    return got
+
+
+def test_errors_first_each_line_together(tmp_path, capsys):
+    path = tmp_path / "order.csv"
+    path.write_text(ORDER_TABLE, encoding="utf-8")
+    code, out, _ = run([path], capsys)
+    assert code == 1
+    printed = _printed_rows(out, path)
+    lines = [row for i, (row, _s) in enumerate(printed) if i == 0 or printed[i - 1][0] != row]
+    assert lines == [3, 5, 4, 2]  # lines with errors, then warnings, then notes; in row order within each
+    assert len(lines) == len({row for row, _s in printed})  # each line's findings together
+    assert (
+        out.index("Lines with errors:") < out.index("Lines with warnings:") < out.index("Lines with notes:")
+    )
+
+
+@pytest.mark.parametrize("least, shown", [("error", {"error"}), ("warning", {"error", "warning"})])
+def test_min_severity(tmp_path, capsys, least, shown):
+    path = tmp_path / "order.csv"
+    path.write_text(ORDER_TABLE, encoding="utf-8")
+    report = tmp_path / "r.json"
+    workbook = tmp_path / "f.xlsx"
+    code, out, _ = run([path, "--min-severity", least, "--report", report, "-o", workbook], capsys)
+    assert code == 1
+    assert {s for _r, s in _printed_rows(out, path)} == shown
+    assert {r["severity"] for r in findings(report)} == shown
+    sheet = openpyxl.load_workbook(workbook)["Findings"]
+    assert {sheet.cell(row=i, column=6).value for i in range(2, sheet.max_row + 1)} == shown
+    # the summary counts every finding, the notes too
+    assert "1 note" in out and f"not printed or reported: --min-severity {least}" in out
+    code, out, err = run([path, "--min-severity", "info"], capsys)
+    assert code == 2 and "invalid choice" in err
+
+
+def test_reports_are_sorted_by_severity_then_sheet_and_row(tmp_path, capsys):
+    path = tmp_path / "order.csv"
+    path.write_text(ORDER_TABLE, encoding="utf-8")
+    report = tmp_path / "r.csv"
+    run([INVENTORY, path, "--report", report, "-o", tmp_path / "f.xlsx", "--show", "0"], capsys)
+    with report.open(encoding="utf-8-sig", newline="") as fh:
+        rows = list(csv.DictReader(fh))
+    rank = {"error": 0, "warning": 1, "note": 2}
+    files = [str(INVENTORY), str(path)]
+    keys = [(rank[r["severity"]], files.index(r["file"]), r["sheet"], int(r["row"])) for r in rows]
+    assert keys == sorted(keys)
+    sheet = openpyxl.load_workbook(tmp_path / "f.xlsx")["Findings"]
+    book = [
+        (rank[sheet.cell(row=i, column=6).value], sheet.cell(row=i, column=3).value)
+        for i in range(2, sheet.max_row + 1)
+    ]
+    assert [k[0] for k in book] == sorted(k[0] for k in book)
+
+
+# -- formula cells with no saved value, grouped digits --------------------------------------------
+
+
+def _rezip(src: Path, dst: Path, change) -> Path:
+    import zipfile
+
+    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(dst, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            zout.writestr(info.filename, change(info.filename, zin.read(info.filename)))
+    return dst
+
+
+def test_formula_cells_with_no_saved_value(tmp_path, capsys):
+    import xlsxwriter
+
+    rows = [["Name", "Formula", "MW"], ["Sodium chloride", "NaCl", "=22.99+35.45"]]
+    made_by_openpyxl = _book(tmp_path / "openpyxl.xlsx", {"Stock": rows})  # a formula, no value saved
+    made_by_xlsxwriter = tmp_path / "xlsxwriter.xlsx"  # 0 saved as the value, recalculation asked for
+    wb = xlsxwriter.Workbook(str(made_by_xlsxwriter))
+    ws = wb.add_worksheet("Stock")
+    ws.write_row(0, 0, rows[0])
+    ws.write_row(1, 0, rows[1][:2])
+    ws.write_formula(1, 2, rows[1][2])
+    wb.close()
+    for book, words in (
+        (made_by_openpyxl, "the cell holds a spreadsheet formula with no saved value"),
+        (made_by_xlsxwriter, "saved value was never computed"),
+    ):
+        report = tmp_path / "r.json"
+        code, out, _ = run([book, "--report", report], capsys)
+        assert code == 0, out
+        got = findings(report)
+        assert [(r["row"], r["column"], r["check"], r["severity"]) for r in got] == [
+            (2, "C", "saved-value", "warning")
+        ]
+        assert (
+            words in got[0]["message"]
+            and "open and save the file in your spreadsheet program" in got[0]["message"]
+        )
+        assert "is not a molar mass" not in out and "None" not in out
+
+    # the same file once a spreadsheet program has saved it: the value is read and checked
+    def saved(name, data):
+        if name == "xl/worksheets/sheet1.xml":
+            return data.replace(b"<v></v>", b"<v>58.44</v>").replace(b"<v />", b"<v>58.44</v>")
+        if name == "xl/workbook.xml":
+            return data.replace(b' fullCalcOnLoad="1"', b"")
+        return data
+
+    computed = _rezip(made_by_openpyxl, tmp_path / "saved.xlsx", saved)
+    report = tmp_path / "r.json"
+    code, out, _ = run([computed, "--report", report], capsys)
+    assert code == 0 and findings(report) == []
+
+
+def test_grouped_digits_in_a_decimal_comma_export(tmp_path, capsys):
+    # ammonium molybdate tetrahydrate, 1235.86 g/mol (CRC Handbook, from memory)
+    path = tmp_path / "export.csv"
+    path.write_text(
+        "Formula;Molar mass\n(NH4)6Mo7O24·4H2O;1.235,86\n(NH4)6Mo7O24·4H2O;1.335,86\n", encoding="utf-8"
+    )
+    report = tmp_path / "r.json"
+    code, _out, _ = run([path, "--report", report], capsys)
+    assert code == 1
+    got = findings(report)
+    assert [(r["row"], r["column"], r["check"]) for r in got] == [(3, "B", "molar-mass")]
+    assert "1335.86 g/mol" in got[0]["message"]
+
+
+# -- lock files, permissions -----------------------------------------------------------------------
+
+
+def test_spreadsheet_lock_files_are_skipped_with_a_note(tmp_path, capsys):
+    data = tmp_path / "list.csv"
+    data.write_text("Name,Formula\nSodium chloride,NaCl\n", encoding="utf-8")
+    excel = tmp_path / "~$stock.xlsx"
+    excel.write_bytes(bytes([5]) + b"Alice" + b"\x00" * 156)  # the owner file Excel keeps while it is open
+    calc = tmp_path / ".~lock.stock.xlsx#"
+    calc.write_text("Alice,host,alice,08.01.2026 10:00,file:///home/alice/.config/libreoffice/4;\n")
+    code, out, _ = run([excel, calc, data], capsys)
+    assert code == 0, out
+    assert "files: 3 (0 could not be used, 2 skipped)" in out
+    assert "'~$stock.xlsx' is the lock file a spreadsheet program keeps while 'stock.xlsx' is open" in out
+    assert "'.~lock.stock.xlsx#' is the lock file" in out
+    assert "NOT READ" not in out
+
+
+@pytest.mark.parametrize("mask", [0o022, 0o077, 0o002])
+def test_reports_get_the_users_usual_permissions(tmp_path, capsys, mask):
+    import os
+    import stat
+
+    path = tmp_path / "order.csv"
+    path.write_text(ORDER_TABLE, encoding="utf-8")
+    old = os.umask(mask)
+    try:
+        outputs = [tmp_path / "r.json", tmp_path / "r.csv", tmp_path / "f.xlsx"]
+        run([path, "--report", outputs[0], "-o", outputs[2]], capsys)
+        run([path, "--report", outputs[1]], capsys)
+        for out in outputs:
+            assert stat.S_IMODE(out.stat().st_mode) == 0o666 & ~mask, out
+        # a report written over an older one keeps the older one's permissions
+        outputs[0].chmod(0o640)
+        run([path, "--report", outputs[0]], capsys)
+        assert stat.S_IMODE(outputs[0].stat().st_mode) == 0o640
+    finally:
+        os.umask(old)
+
+
+# -- the findings workbook on screen and on paper -------------------------------------------------
+
+LONG = " ".join(f"word{i:03d}" for i in range(70))
+
+
+def _long_records():
+    from cellchem.adapters.reports import FindingRecord
+
+    return [
+        FindingRecord("stock.xlsx", "Stock", r, "D", "name", "error", f"{LONG} row{r}end", "x " * 40)
+        for r in range(2, 30)
+    ]
+
+
+def test_findings_workbook_rows_fit_their_text_and_print_on_a4_landscape(tmp_path):
+    from cellchem.adapters.reports import write_workbook
+
+    out = tmp_path / "f.xlsx"
+    write_workbook(out, _long_records(), [("lines checked: 28", "")])
+    ws = openpyxl.load_workbook(out)["Findings"]
+    width = ws.column_dimensions["G"].width
+    assert ws["G2"].alignment.wrap_text
+    # at most about 1.2 characters a unit of width fit on a line of the message column (common practice)
+    assert ws.row_dimensions[2].height >= 15 * (len(ws["G2"].value) / (1.2 * width))
+    assert ws.page_setup.orientation == "landscape" and int(ws.page_setup.paperSize) == 9
+    assert ws.sheet_properties.pageSetUpPr.fitToPage and ws.page_setup.fitToWidth == 1
+    assert ws.page_setup.fitToHeight == 0
+    assert ws.print_title_rows == "$1:$1"
+
+
+def _pdf_text(tmp_path: Path, book: Path) -> list[str]:
+    """The text of each page of a workbook printed to PDF by LibreOffice."""
+    import shutil
+
+    if shutil.which("pdftotext") is None:
+        pytest.skip("pdftotext (poppler-utils) is not installed")
+    profile = tmp_path / "lo-profile"
+    subprocess.run(
+        [
+            _soffice(),
+            f"-env:UserInstallation=file://{profile}",
+            "--headless",
+            "--convert-to",
+            "pdf",
+            "--outdir",
+            str(tmp_path / "pdf"),
+            str(book),
+        ],
+        check=True,
+        capture_output=True,
+        timeout=180,
+    )
+    pdf = tmp_path / "pdf" / (book.stem + ".pdf")
+    text = subprocess.run(["pdftotext", str(pdf), "-"], capture_output=True, text=True, check=True).stdout
+    return text.split("\f")
+
+
+@pytest.mark.skipif(_soffice() is None, reason="LibreOffice is not installed (CI installs it)")
+def test_findings_workbook_printed_by_libreoffice_shows_every_word(tmp_path):
+    from cellchem.adapters.reports import write_workbook
+
+    out = tmp_path / "f.xlsx"
+    write_workbook(out, _long_records(), [("lines checked: 28", "")])
+    pages = [p for p in _pdf_text(tmp_path, out) if p.strip()]
+    words = " ".join(pages).split()
+    # no message is cut off under the row below: every word of every one is printed, in order
+    for r in range(2, 30):
+        at = words.index(f"row{r}end")
+        assert words[at - 70 : at] == LONG.split(), r
+    # each page of findings repeats the header, with the cell reference and the message on the same page
+    finding_pages = [p for p in pages if "row" in p and "word000" in p]
+    assert len(finding_pages) >= 2
+    for page in finding_pages:
+        assert "Column" in page and "Row" in page and "Message" in page
+
+
+def test_header_row_of_a_text_file_is_its_line_number(tmp_path, capsys):
+    path = tmp_path / "late.csv"
+    lines = [f"note {i}" for i in range(22)] + ["", "Name,Formula,MW", "Sodium chloride,NaCl,80"]
+    path.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    code, out, _ = run([path], capsys)
+    assert code == 2
+    report = tmp_path / "r.json"
+    code, out, _ = run([path, "--header-row", "24", "--report", report], capsys)
+    assert code == 1 and "header row 24" in out
+    assert [(r["row"], r["column"]) for r in findings(report)] == [(25, "C")]
+    code, out, _ = run([path, "--header-row", "23"], capsys)
+    assert code == 2 and "the header row 23 is empty" in out

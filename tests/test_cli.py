@@ -24,7 +24,7 @@ def test_demo_list_reports_the_planted_defects(capsys):
     assert "'CUO' is written in capitals" in out
     assert "24 lines checked" in out
     # line 15: the name says copper(II) oxide, the formula reads as C, U, O
-    assert "the name 'Copper(II) oxide' reads as CuO, but the formula is CUO" in out
+    assert "the name 'Copper(II) oxide' and the molar mass 79.55 agree on CuO; the formula says CUO" in out
 
 
 def test_clean_list_exits_0(tmp_path, capsys):

@@ -169,8 +169,12 @@ def test_formulas_are_never_overwritten(tmp_path, capsys):
         tmp_path / "s.xlsx", [["Item", "Formula", "Molar mass (g/mol)"], ["Sodium chloride", "NaCl", "=1+1"]]
     )
     out = tmp_path / "o.xlsx"
-    assert main(["fill", str(src), "-o", str(out), "--add", "molar-mass", "--overwrite"]) == 0
-    assert openpyxl.load_workbook(out)["Stock"]["C2"].value == "=1+1"
+    # the molar-mass cell is a formula openpyxl saved without a value: its content is not known, so the
+    # line is not filled (exit 1), and the verdict says why
+    assert main(["fill", str(src), "-o", str(out), "--add", "molar-mass,verdict", "--overwrite"]) == 1
+    ws = openpyxl.load_workbook(out)["Stock"]
+    assert ws["C2"].value == "=1+1"
+    assert "spreadsheet formula with no saved value" in ws["D2"].value
 
 
 def test_protected_sheet_is_refused(tmp_path, capsys):
@@ -196,8 +200,8 @@ def test_audit_annotate_adds_a_check_column_and_a_findings_sheet(tmp_path, capsy
     wb = openpyxl.load_workbook(out, read_only=True)
     assert wb.sheetnames[-1] == "cellchem findings"
     findings = list(wb["cellchem findings"].iter_rows(values_only=True))
-    assert findings[0] == ("Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion")
-    assert any(r[4] == "error" and r[1] == 12 for r in findings[1:])
+    assert findings[0] == ("Cell", "Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion")
+    assert any(r[5] == "error" and r[2] == 12 and r[0] == f"{r[3]}12" for r in findings[1:])
     stock = list(wb["Stock"].iter_rows(min_row=4, max_row=12, values_only=True))
     assert stock[0][9] == "cellchem check"
     assert stock[1][9] == "ok"
@@ -238,3 +242,172 @@ def test_damaged_workbooks_are_refused_without_a_traceback(tmp_path, capsys):
             assert not out.exists()
         assert main(["audit", str(path), "--show", "0"]) in (0, 1, 2)
     capsys.readouterr()
+
+
+# -- nothing written that a cell of the line contradicts ------------------------------------------
+
+
+def _filled_csv(tmp_path: Path, text: str, *args: str) -> tuple[int, list[list[str]], str]:
+    src = tmp_path / "list.csv"
+    src.write_text(text, encoding="utf-8")
+    out = tmp_path / "out.csv"
+    code = main(["fill", str(src), "-o", str(out), *args])
+    rows = list(csv.reader(out.open(encoding="utf-8", newline=""))) if out.exists() else []
+    return code, rows, str(out)
+
+
+def test_a_formula_in_a_column_fill_cannot_see_stops_the_line(tmp_path, capsys):
+    # 'Zusammensetzung' is not a heading cellchem reads: fill sees only the name column
+    text = (
+        "Substance,Zusammensetzung,Hazardous\n"
+        "Iron(III) sulfate,FeSO4,No\n"  # the hidden formula is iron(II) sulfate: nothing may be written
+        "Sodium chloride,NaCl,No\n"  # the hidden formula agrees: filled ('No' is no formula here)
+        "Potassium nitrate,,Yes\n"  # nothing contradicts the name: filled
+    )
+    code, rows, _ = _filled_csv(tmp_path, text, "--add", "formula,molar-mass,verdict")
+    assert code == 1
+    assert rows[1][3:5] == ["", ""]
+    assert "'FeSO4' reads as the formula of FeSO4, not Fe2(SO4)3" in rows[1][5]
+    assert rows[2][3] == "NaCl" and rows[3][3] == "KNO3"
+    # once the formula column is named, the name and the formula disagree: still nothing written
+    code, rows, _ = _filled_csv(tmp_path, text, "--add", "formula,verdict", "--column", "formula=B")
+    assert code == 1 and rows[1][3] == "" and rows[1][4].startswith("error")
+
+
+def test_a_name_in_a_column_fill_cannot_see_stops_the_line(tmp_path, capsys):
+    text = "Formula,Bemerkung\nFeSO4,Iron(III) sulfate\nNaCl,sodium chloride\n"
+    code, rows, _ = _filled_csv(tmp_path, text, "--add", "formula,verdict")
+    assert code == 1
+    assert rows[1][2] == "" and "reads as the name of Fe2(SO4)3" in rows[1][3]
+    assert rows[2][2] == "NaCl"
+
+
+def test_no_name_and_no_formula_column_writes_nothing(tmp_path, capsys):
+    code, rows, out = _filled_csv(tmp_path, "Code,Qty,CAS No.\nA-1,5,7647-14-5\n")
+    assert code == 2 and rows == [] and not Path(out).exists()
+    assert "nothing was written" in capsys.readouterr().err
+    book = _workbook(tmp_path / "codes.xlsx", [["Code", "Qty", "CAS No."], ["A-1", 5, "7647-14-5"]])
+    assert main(["fill", str(book), "-o", str(tmp_path / "o.xlsx")]) == 2
+    assert not (tmp_path / "o.xlsx").exists()
+    assert "fill needs a table with a name or formula column" in capsys.readouterr().err
+
+
+def test_a_name_silent_about_water_fills_only_what_water_leaves_alone():
+    cols = read_columns("formula,name,molar-mass,water,cations,anions,verdict")
+    # magnesium sulfate has hydrates (MgSO4·7H2O, Epsom salt; CRC Handbook, from memory): the name alone
+    # does not say which is on the shelf
+    line = fill_line(cols, None, "Magnesium sulfate")
+    assert line.filled and line.partly
+    assert line.values[:4] == (None, None, None, None)
+    assert line.values[4:6] == ("Mg2+", "SO4 2-")
+    assert "does not say the water of crystallisation" in line.values[6]
+    # a name that says the hydrate, or anhydrous, fixes it
+    assert fill_line(cols, None, "Magnesium sulfate heptahydrate").values[0] == "MgSO4·7H2O"
+    assert fill_line(cols, None, "Magnesium sulfate, anhydrous").values[0] == "MgSO4"
+    # sodium chloride has no hydrate a store holds: the name fixes it
+    assert fill_line(cols, None, "Sodium chloride").values[0] == "NaCl"
+    # with a formula cell the formula says the water
+    assert fill_line(cols, "MgSO4·7H2O", "Magnesium sulfate").values[0] == "MgSO4·7H2O"
+
+
+def test_a_stated_molar_mass_is_a_second_opinion():
+    cols = read_columns("formula,molar-mass,verdict")
+    # CuSO4·5H2O is 249.68 g/mol, CuSO4 159.61 g/mol (CRC Handbook, from memory): which one the shelf holds
+    # is not known from the formula alone
+    line = fill_line(cols, "CuSO4·5H2O", None, "159.61")
+    assert not line.filled and "159.61 g/mol does not match CuSO4·5H2O" in line.values[2]
+    # a name that agrees with the formula outvotes the molar mass, and the computed value is written
+    line = fill_line(cols, "CuSO4·5H2O", "copper(II) sulfate pentahydrate", "159.61")
+    assert line.filled and line.values[1] == pytest.approx(249.68, abs=0.01)
+    # a name alone against the molar mass: NaCl is 58.44 g/mol (CRC Handbook, from memory)
+    assert not fill_line(cols, None, "Sodium chloride", "80").filled
+    assert fill_line(cols, None, "Sodium chloride", "58.44").filled
+
+
+def test_a_formula_cell_with_no_saved_value_is_not_filled_around():
+    from cellchem.audit import NO_SAVED_VALUE
+
+    line = fill_line(read_columns("formula,verdict"), NO_SAVED_VALUE, "Sodium chloride")
+    assert not line.filled and "no saved value" in line.values[1]
+
+
+# -- header rows, columns per sheet, lock files, permissions --------------------------------------
+
+
+def test_fill_with_a_header_row_and_columns_per_sheet(tmp_path, capsys):
+    path = tmp_path / "two.xlsx"
+    wb = openpyxl.Workbook()
+    wb.active.title = "Notes"
+    wb.active.append(["Invented data for a test."])
+    ws = wb.create_sheet("Stock")
+    for i in range(24):
+        ws.append([f"note {i}"])
+    ws.append(["Item", "Zusammensetzung"])
+    ws.append(["Sodium chloride", "NaCl"])
+    wb.save(path)
+    out = tmp_path / "o.xlsx"
+    assert main(["fill", str(path), "-o", str(out)]) == 2  # no header in the first 20 rows
+    args = ["fill", str(path), "-o", str(out), "--add", "formula", "--header-row", "Stock:25"]
+    assert main([*args, "--column", "Stock:formula=B"]) == 0
+    assert openpyxl.load_workbook(out)["Stock"]["C26"].value == "NaCl"
+    assert "header row 25" in capsys.readouterr().out
+
+
+def test_fill_refuses_a_lock_file(tmp_path, capsys):
+    lock = tmp_path / "~$stock.xlsx"
+    lock.write_bytes(bytes([5]) + b"Alice" + b"\x00" * 156)
+    assert main(["fill", str(lock), "-o", str(tmp_path / "o.xlsx")]) == 2
+    assert "lock file" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("mask", [0o022, 0o027])
+def test_fill_output_gets_the_users_usual_permissions(tmp_path, capsys, mask):
+    import os
+    import stat
+
+    src = _workbook(tmp_path / "s.xlsx", [["Item", "Formula"], ["Sodium chloride", "NaCl"]])
+    csv_src = tmp_path / "s.csv"
+    csv_src.write_text("Item,Formula\nSodium chloride,NaCl\n", encoding="utf-8")
+    old = os.umask(mask)
+    try:
+        for source, out in ((src, tmp_path / "o.xlsx"), (csv_src, tmp_path / "o.csv")):
+            assert main(["fill", str(source), "-o", str(out)]) == 0
+            assert stat.S_IMODE(out.stat().st_mode) == 0o666 & ~mask
+    finally:
+        os.umask(old)
+
+
+def test_fill_reads_grouped_digits_in_a_decimal_comma_export(tmp_path, capsys):
+    # ammonium molybdate tetrahydrate, 1235.86 g/mol (CRC Handbook, from memory)
+    code, _rows, _ = _filled_csv(
+        tmp_path, "Formula;MW\n(NH4)6Mo7O24·4H2O;1.235,86\n", "--add", "formula,verdict"
+    )
+    assert code == 0
+    out = (tmp_path / "out.csv").read_text(encoding="utf-8").splitlines()
+    assert out[1].endswith(";ok")
+
+
+def test_annotated_findings_sheet_is_made_to_be_read(tmp_path, capsys):
+    out = tmp_path / "annotated.xlsx"
+    main(["audit", str(ROOT / "workbooks" / "demo-inventory.xlsx"), "--annotate", str(out), "--show", "0"])
+    wb = openpyxl.load_workbook(out)
+    ws = wb["cellchem findings"]
+    assert all(c.font.b for c in ws[1])
+    assert ws.column_dimensions["G"].width >= 60 and ws["G2"].alignment.wrap_text
+    assert ws.page_setup.orientation == "landscape" and int(ws.page_setup.paperSize) == 9
+    assert ws.sheet_properties.pageSetUpPr.fitToPage and ws.print_title_rows == "$1:$1"
+    rank = {"error": 0, "warning": 1, "note": 2}
+    keys = [
+        (rank[ws.cell(row=r, column=6).value], ws.cell(row=r, column=3).value)
+        for r in range(2, ws.max_row + 1)
+    ]
+    assert keys == sorted(keys)
+    for r in range(2, ws.max_row + 1):
+        cell = ws.cell(row=r, column=1)
+        sheet, row, column = (ws.cell(row=r, column=c).value for c in (2, 3, 4))
+        assert cell.hyperlink is not None and cell.hyperlink.location == f"'{sheet}'!{column or 'A'}{row}"
+        target = wb[sheet][f"{column or 'A'}{row}"]
+        assert target.row == row
+    # the user's own sheet is untouched by the new formats: its header keeps its style
+    source = openpyxl.load_workbook(ROOT / "workbooks" / "demo-inventory.xlsx")
+    assert wb["Stock"]["C4"].font.b == source["Stock"]["C4"].font.b

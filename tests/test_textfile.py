@@ -707,3 +707,46 @@ def test_delimiter_of_a_rectangular_table_is_found(
     assert table.delimiter == delimiter
     assert table.decimal_comma is (delimiter == ";")
     assert table.rows == tuple(tuple(row) for row in rows)
+
+
+# -- digit grouping in a molar-mass cell ----------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    "text, decimal_comma, expected",
+    [
+        ("1.235,86", True, "1235,86"),
+        ("1\u00a0235,86", True, "1235,86"),
+        ("1.235,86 g/mol", True, "1235,86 g/mol"),
+        ("1,235.86", False, "1235.86"),
+        ("12.345.678", True, "12345678"),
+        ("1.235", True, "1.235"),  # grouping or a decimal point: left to the reader of the cell
+        ("1,235", False, "1,235"),
+        ("58,44", True, "58,44"),
+        ("58.44", True, "58.44"),
+        ("n/a", True, "n/a"),
+        ("", True, ""),
+    ],
+)
+def test_ungrouped_number(text, decimal_comma, expected):
+    from cellchem.adapters.textfile import ungrouped_number
+
+    assert ungrouped_number(text, decimal_comma) == expected
+
+
+@given(
+    whole=st.integers(min_value=1000, max_value=10**9),
+    cents=st.integers(min_value=0, max_value=99),
+    decimal_comma=st.booleans(),
+    space=st.booleans(),
+)
+def test_grouped_numbers_read_as_their_plain_value(whole, cents, decimal_comma, space):
+    from cellchem.adapters.textfile import parse_number, ungrouped_number
+
+    group = " " if space else ("." if decimal_comma else ",")
+    mark = "," if decimal_comma else "."
+    grouped = f"{whole:,}".replace(",", group) + f"{mark}{cents:02d}"
+    plain = ungrouped_number(grouped, decimal_comma)
+    assert group not in plain
+    assert float(plain.replace(",", ".")) == pytest.approx(whole + cents / 100)
+    assert parse_number(plain, decimal_comma) == parse_number(grouped, decimal_comma)

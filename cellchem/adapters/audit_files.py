@@ -10,11 +10,23 @@ from dataclasses import dataclass, field
 from itertools import chain, islice
 from pathlib import Path
 
-from ..audit import Summary, iter_audit
-from ..columns import HEADER_SEARCH_ROWS, column_letter, find_layout
+from ..audit import WARNING, Summary, iter_audit
+from ..columns import (
+    HEADER_SEARCH_ROWS,
+    NO_ROLES,
+    NO_TABLE,
+    NOT_MATCHED,
+    ColumnOptions,
+    Layout,
+    LayoutError,
+    column_letter,
+    find_layout,
+)
 from ..errors import CellchemError
 from .files import MAX_COLUMNS, UnusableFile, one_line
 from .reports import FindingRecord
+
+COLUMNS_CHECK = "columns"  # the check of a table's columns (a table with no name or formula column)
 
 
 @dataclass
@@ -29,6 +41,8 @@ class SheetReport:
     notes: list[str] = field(default_factory=list)
     error: str = ""  # why the sheet could not be audited
     no_table: bool = False  # no header row found (a notes or cover sheet)
+    no_roles: bool = False  # a table whose headings name no name or formula column (a warning)
+    not_matched: bool = False  # a --column given for every sheet does not fit this sheet (a note)
 
 
 @dataclass
@@ -39,6 +53,7 @@ class FileReport:
     hidden: list[str] = field(default_factory=list)  # hidden sheets not read
     notes: list[str] = field(default_factory=list)
     error: str = ""  # the file could not be used
+    skipped: str = ""  # why the file was passed over (a spreadsheet's lock file): a note
 
 
 @dataclass
@@ -58,15 +73,56 @@ class AuditRun:
     def unusable(self) -> list[FileReport]:
         return [f for f in self.files if f.error]
 
+    def order(self) -> dict[tuple[str, str], int]:
+        """(file, sheet) -> its place in the run: files in the order given,
+        sheets in workbook order."""
+        out: dict[tuple[str, str], int] = {}
+        for f in self.files:
+            for s in f.sheets:
+                out.setdefault((f.path, s.sheet), len(out))
+        return out
+
 
 @dataclass(frozen=True)
 class Options:
-    columns: Mapping[str, str] = field(default_factory=dict)
+    columns: Mapping[str, str] = field(default_factory=dict)  # for every sheet (kept for scripts)
     sheet: str | None = None
     hidden: bool = False
     encoding: str | None = None
     delimiter: str | None = None
     mass_allowance: float | None = None
+    column_options: ColumnOptions | None = None  # --column [SHEET:]... and --header-row [SHEET:]N
+
+    def layout_options(self) -> ColumnOptions:
+        if self.column_options is not None:
+            return self.column_options
+        return ColumnOptions(general=dict(self.columns))
+
+
+def lock_file_target(path: str | Path) -> str | None:
+    """The workbook a spreadsheet program's lock file stands for, or None:
+    ``~$stock.xlsx`` (Excel's owner file) and ``.~lock.stock.xlsx#``
+    (LibreOffice's) lie beside ``stock.xlsx`` while it is open.
+
+    >>> lock_file_target("~$stock.xlsx"), lock_file_target(".~lock.stock.xlsx#"), lock_file_target("a.xlsx")
+    ('stock.xlsx', 'stock.xlsx', None)
+    """
+    name = Path(path).name
+    if name.startswith("~$") and len(name) > 2:
+        return name[2:]
+    if name.startswith(".~lock.") and name.endswith("#") and len(name) > 8:
+        return name[len(".~lock.") : -1]
+    return None
+
+
+def lock_file_note(path: str | Path) -> str | None:
+    target = lock_file_target(path)
+    if target is None:
+        return None
+    return (
+        f"'{Path(path).name}' is the lock file a spreadsheet program keeps while '{target}' is open,"
+        " not a table: skipped"
+    )
 
 
 def _progress(iterable, total: int | None, label: str):
@@ -79,24 +135,71 @@ def _progress(iterable, total: int | None, label: str):
     return tqdm(iterable, total=total, desc=label, unit=" rows", leave=False, file=sys.stderr)
 
 
+@dataclass(frozen=True)
+class SheetColumns:
+    """The user's columns and header row for one table."""
+
+    specific: Mapping[str, str]
+    general: Mapping[str, str]
+    header_row: int | None  # 1-based sheet row (line number in a text file)
+
+
+def sheet_columns(options: ColumnOptions, sheet: str, single_table: bool) -> SheetColumns:
+    """The columns for one sheet; ``single_table``: the file has one table, so
+    that the columns given for every sheet are meant for it."""
+    specific, general, header_row = options.for_sheet(sheet)
+    if single_table:
+        specific, general = {**general, **specific}, {}
+    return SheetColumns(specific, general, header_row)
+
+
+def layout_of(head: Sequence[Sequence[object]], columns: SheetColumns, header_index: int | None) -> Layout:
+    return find_layout(head, columns.specific, header_index=header_index, general=columns.general)
+
+
+def _sheet_failed(report: SheetReport, exc: CellchemError, number_of: Callable[[int], int]) -> None:
+    """Record why a table was not audited."""
+    report.error = str(exc)
+    kind = exc.kind if isinstance(exc, LayoutError) else ""
+    if kind == NO_TABLE:
+        report.no_table = True
+    elif kind == NO_ROLES:
+        report.no_roles = True
+        if exc.header_index is not None:
+            report.header_row = number_of(exc.header_index)
+    elif kind == NOT_MATCHED and exc.general:
+        report.not_matched = True
+
+
 def _audit_table(
     report: SheetReport,
     rows: Iterator[Sequence[object]],
     options: Options,
     findings: list[FindingRecord],
     *,
+    columns: SheetColumns,
     numbers: Callable[[int], int] | None = None,
+    index_of: Callable[[int], int | None] | None = None,
     decimal_comma: bool | None = None,
     total: int | None = None,
+    cell_filter: Callable[[Layout, Iterator[Sequence[object]]], Iterator[Sequence[object]]] | None = None,
 ) -> None:
-    head = list(islice(rows, HEADER_SEARCH_ROWS))
-    try:
-        layout = find_layout(head, options.columns)
-    except CellchemError as exc:
-        report.error = str(exc)
-        report.no_table = True
-        return
     number_of = numbers or (lambda i: i + 1)
+    header_index = None
+    if columns.header_row is not None:
+        header_index = (index_of or (lambda n: n - 1))(columns.header_row)
+        if header_index is None:
+            report.error = f"--header-row {columns.header_row}: no row starts there"
+            return
+    head = list(islice(rows, max(HEADER_SEARCH_ROWS, (header_index or 0) + 1)))
+    if header_index is not None and header_index >= len(head):
+        report.error = f"--header-row {columns.header_row}: the table has only {len(head)} rows"
+        return
+    try:
+        layout = layout_of(head, columns, header_index)
+    except CellchemError as exc:
+        _sheet_failed(report, exc, number_of)
+        return
     report.header_row = number_of(layout.header_index)
     report.roles = {
         role: f"{column_letter(i)} {layout.headers[i]!r}" if i < len(layout.headers) else column_letter(i)
@@ -104,7 +207,12 @@ def _audit_table(
     }
     for dup in layout.duplicates:
         report.notes.append(f"duplicate heading {dup}; the first is used")
-    body = chain(head[layout.header_index + 1 :], rows)
+    for text in layout.ambiguous:
+        report.notes.append(f"heading {text}")
+    report.notes.extend(layout.replaced)
+    body: Iterator[Sequence[object]] = chain(head[layout.header_index + 1 :], rows)
+    if cell_filter is not None:
+        body = cell_filter(layout, body)
     first = layout.header_index + 1
     row_numbers = (number_of(i) for i in range(first, 1 << 62))
     label = f"{Path(report.file).name} {report.sheet}".strip()
@@ -134,12 +242,17 @@ def _audit_table(
 
 def audit_file(path: str | Path, options: Options, run: AuditRun) -> FileReport:
     """Audit one file into ``run``; a file that cannot be used is reported in
-    its FileReport's ``error``, never raised."""
+    its FileReport's ``error``, never raised. A spreadsheet's lock file is
+    passed over with a note."""
     from .precheck import precheck
 
     p = Path(path)
     report = FileReport(str(path))
     run.files.append(report)
+    lock = lock_file_note(p)
+    if lock is not None:
+        report.skipped = lock
+        return report
     try:
         report.kind = precheck(p)
         if report.kind == "text":
@@ -160,6 +273,26 @@ def audit_file(path: str | Path, options: Options, run: AuditRun) -> FileReport:
     return report
 
 
+def _mass_cells(decimal_comma: bool):
+    """A filter for a text file's rows: a molar mass written with its digits
+    grouped (``1.235,86``) is given to the checks without the grouping."""
+    from .textfile import ungrouped_number
+
+    def apply(layout: Layout, rows: Iterator[Sequence[object]]) -> Iterator[Sequence[object]]:
+        index = layout.roles.get("molar_mass")
+        if index is None:
+            yield from rows
+            return
+        for row in rows:
+            if index < len(row) and isinstance(row[index], str):
+                cell = ungrouped_number(row[index], decimal_comma)
+                if cell != row[index]:
+                    row = (*row[:index], cell, *row[index + 1 :])
+            yield row
+
+    return apply
+
+
 def _audit_text(path: Path, report: FileReport, options: Options, run: AuditRun) -> None:
     from .textfile import read_text_table
 
@@ -173,17 +306,40 @@ def _audit_text(path: Path, report: FileReport, options: Options, run: AuditRun)
     sheet = SheetReport(str(path), "")
     report.sheets.append(sheet)
     lines = table.line_numbers
+    index_of_line = {line: i for i, line in enumerate(lines)}
     _audit_table(
         sheet,
         iter(table.rows),
         options,
         run.findings,
+        columns=sheet_columns(options.layout_options(), "", single_table=True),
         numbers=lambda i: lines[i] if i < len(lines) else i + 1,
+        index_of=index_of_line.get,
         decimal_comma=table.decimal_comma,
         total=len(table.rows),
+        cell_filter=_mass_cells(table.decimal_comma),
     )
     if sheet.error:
         report.error = f"'{path.name}': {sheet.error}"
+
+
+def tables_in(reader, names: Sequence[str], options: ColumnOptions) -> int:
+    """How many of the sheets hold a table (a header row, whether or not the
+    columns given for every sheet fit it)."""
+    count = 0
+    for name in names:
+        columns = sheet_columns(options, name, single_table=False)
+        index = None if columns.header_row is None else columns.header_row - 1
+        head = list(islice(reader.rows(name), max(HEADER_SEARCH_ROWS, (index or 0) + 1)))
+        try:
+            layout_of(head, columns, index)
+        except LayoutError as exc:
+            if exc.kind == NO_TABLE and index is None:
+                continue
+        except CellchemError:
+            pass
+        count += 1
+    return count
 
 
 def _audit_workbook(path: Path, report: FileReport, options: Options, run: AuditRun) -> None:
@@ -201,16 +357,43 @@ def _audit_workbook(path: Path, report: FileReport, options: Options, run: Audit
     else:
         chosen = [s for s in sheets if s.state == "visible" or options.hidden]
         report.hidden = [] if options.hidden else hidden
+    layout_options = options.layout_options()
     with WorkbookReader(path) as reader:
         names = set(reader.sheet_names)
-        for info in chosen:
-            if info.name not in names:
-                continue  # a chartsheet or a dialog sheet: no cells
+        readable = [info for info in chosen if info.name in names]  # not chartsheets or dialog sheets
+        single = (
+            options.sheet is not None
+            or len(readable) <= 1
+            or not layout_options.general
+            or tables_in(reader, [i.name for i in readable], layout_options) <= 1
+        )
+        for info in readable:
             sheet = SheetReport(str(path), info.name)
             report.sheets.append(sheet)
             if info.state != "visible":
                 sheet.notes.append(f"sheet '{info.name}' is {info.state}")
-            _audit_table(sheet, reader.rows(info.name), options, run.findings)
+            _audit_table(
+                sheet,
+                reader.rows(info.name),
+                options,
+                run.findings,
+                columns=sheet_columns(layout_options, info.name, single),
+            )
+            if sheet.no_roles:
+                sheet.summary.add_finding(WARNING, COLUMNS_CHECK)
+                run.findings.append(
+                    FindingRecord(
+                        str(path),
+                        info.name,
+                        sheet.header_row,
+                        "",
+                        COLUMNS_CHECK,
+                        WARNING,
+                        f"the sheet has a table but no column read as name or formula, so its lines were"
+                        f" not checked: {sheet.error}",
+                        f"--column '{info.name}:formula=LETTER'",
+                    )
+                )
             if getattr(reader, "truncated", False):
                 sheet.notes.append(f"columns beyond {column_letter(MAX_COLUMNS - 1)} were not read")
     if report.sheets and all(s.error for s in report.sheets):

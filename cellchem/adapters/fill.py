@@ -18,19 +18,28 @@ from __future__ import annotations
 
 import csv
 import io
-import os
 import tempfile
 import zipfile
 from collections import Counter
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ..audit import _blank
-from ..columns import HEADER_SEARCH_ROWS, Layout, column_letter, find_layout
+from ..audit import NO_SAVED_VALUE, NOT_RECALCULATED, _blank
+from ..columns import (
+    HEADER_SEARCH_ROWS,
+    NO_TABLE,
+    NOT_MATCHED,
+    ColumnOptions,
+    Layout,
+    LayoutError,
+    column_letter,
+)
 from ..errors import CellchemError
 from ..fill import MASS, NUMBER, FillColumn, fill_line
+from .audit_files import lock_file_note, sheet_columns
 from .files import UnusableFile, one_line
 from .package import (
+    MAIN_NS,
     MAX_SHEET_COLUMNS,
     NewCell,
     Styles,
@@ -42,7 +51,9 @@ from .package import (
     verify,
     write_package,
 )
-from .reports import defuse
+from .reports import defuse, replace_atomically
+
+_F = f"{{{MAIN_NS}}}f"
 
 
 @dataclass
@@ -55,6 +66,7 @@ class FillReport:
     header_row: int = 0
     columns: list[tuple[str, str]] = field(default_factory=list)  # (letter, header)
     filled: int = 0
+    partly: int = 0  # lines filled only in the columns their name fixes
     not_filled: Counter = field(default_factory=Counter)
     kept_existing: int = 0
     notes: list[str] = field(default_factory=list)
@@ -67,6 +79,12 @@ class FillOptions:
     sheet: str | None = None
     overwrite: bool = False
     mass_allowance: float | None = None
+    column_options: ColumnOptions | None = None  # --column [SHEET:]... and --header-row [SHEET:]N
+
+    def layout_options(self) -> ColumnOptions:
+        if self.column_options is not None:
+            return self.column_options
+        return ColumnOptions(general=dict(self.overrides))
 
 
 def derived_output(path: Path, word: str = "filled") -> Path:
@@ -91,6 +109,9 @@ def fill_file(
 
     src = Path(path)
     dst = Path(out)
+    lock = lock_file_note(src)
+    if lock is not None:
+        raise UnusableFile(lock.replace(": skipped", "; fill the workbook itself"))
     try:
         if dst.resolve() == src.resolve():
             raise UnusableFile(f"the output '{dst}' is the input; cellchem never writes the input file")
@@ -126,7 +147,15 @@ def fill_file(
 # ---------------------------------------------------------------------------
 
 
-def _choose_sheet(src: Path, options: FillOptions, zin, pmap, strings) -> tuple[object, Layout]:
+def _layout(head, columns, header_index: int | None) -> Layout:
+    from .audit_files import layout_of
+
+    return layout_of(head, columns, header_index)
+
+
+def _choose_sheet(
+    src: Path, options: FillOptions, zin, pmap, strings, report: FillReport
+) -> tuple[object, Layout]:
     from .package import first_rows
 
     sheets = pmap.sheets
@@ -140,14 +169,51 @@ def _choose_sheet(src: Path, options: FillOptions, zin, pmap, strings) -> tuple[
             f"'{src.name}' has no sheet named '{options.sheet}'; its sheets are: "
             + ", ".join(repr(s.name) for s in sheets)
         )
+    layout_options = options.layout_options()
+    heads = {}
+    for sheet in wanted:
+        _specific, _general, header_row = layout_options.for_sheet(sheet.name)
+        heads[sheet.name] = (
+            first_rows(zin, sheet.part, strings, max(HEADER_SEARCH_ROWS, header_row or 0)),
+            header_row,
+        )
+    single = bool(options.sheet) or len(wanted) <= 1 or not layout_options.general
+    if not single:
+        tables = 0
+        for sheet in wanted:
+            head, header_row = heads[sheet.name]
+            try:
+                _layout(
+                    head,
+                    sheet_columns(layout_options, sheet.name, False),
+                    None if header_row is None else header_row - 1,
+                )
+            except LayoutError as exc:
+                if exc.kind == NO_TABLE and header_row is None:
+                    continue
+            except CellchemError:
+                pass
+            tables += 1
+        single = tables <= 1
     errors = []
     for sheet in wanted:
-        head = first_rows(zin, sheet.part, strings, HEADER_SEARCH_ROWS)
+        head, header_row = heads[sheet.name]
+        columns = sheet_columns(layout_options, sheet.name, single)
+        index = None if header_row is None else header_row - 1
         try:
-            return sheet, find_layout(head, options.overrides)
-        except CellchemError as exc:
+            return sheet, _layout(head, columns, index)
+        except LayoutError as exc:
+            if exc.kind == NOT_MATCHED and exc.general:
+                report.notes.append(
+                    f"sheet '{sheet.name}' not filled, the columns given do not match it: {exc}"
+                )
             errors.append(f"sheet '{sheet.name}': {exc}")
-    raise UnusableFile(f"'{src.name}': no sheet holds a table to fill ({'; '.join(errors) or 'no sheets'})")
+        except CellchemError as exc:
+            raise UnusableFile(f"'{src.name}', sheet '{sheet.name}': {exc}") from None
+    raise UnusableFile(
+        f"'{src.name}': nothing was written: fill needs a table with a name or formula column"
+        f" ({'; '.join(errors) or 'no sheets'})"
+    )
 
 
 def _fill_workbook(
@@ -157,7 +223,7 @@ def _fill_workbook(
     with zipfile.ZipFile(src) as zin:
         pmap = package_map(zin)
         strings = shared_strings(zin, pmap.shared_strings)
-        sheet, layout = _choose_sheet(src, options, zin, pmap, strings)
+        sheet, layout = _choose_sheet(src, options, zin, pmap, strings, report)
         report.sheet = sheet.name
         header_row = layout.header_index + 1
         report.header_row = header_row
@@ -202,6 +268,9 @@ def _fill_workbook(
                 )
         styles = Styles(zin.read(pmap.styles) if pmap.styles and pmap.styles in zin.namelist() else None)
         roles = layout.roles
+        role_columns = set(roles.values())
+        own = {i for _c, i, _new in targets}
+        degraded = not ({"formula", "name"} <= roles.keys())
         last_heading = max((i for i, h in enumerate(layout.headers) if h), default=0)
         header_style: list[int | None] = [None]
 
@@ -226,12 +295,17 @@ def _fill_workbook(
                 header_style[0] = style_of(cells, last_heading)
                 return [NewCell(i, c.header, header_style[0]) for c, i, new in targets if new]
             values = {
-                role: cell_value(cells[index], strings) if index in cells else None
+                role: _value_of(cells[index], strings, pmap.recalculate) if index in cells else None
                 for role, index in roles.items()
             }
             if all(_blank(v) for v in values.values()):
                 return []
-            line = _fill_from_roles(values, options, report, None)
+            others = None
+            if degraded:
+                others = [
+                    cell_value(c, strings) for i, c in cells.items() if i not in role_columns and i not in own
+                ]
+            line = _fill_from_roles(values, options, report, None, others)
             base = style_of(cells, last_heading)
             out = []
             for (column, index, _new), value in zip(targets, line.values):
@@ -246,7 +320,6 @@ def _fill_workbook(
         with tempfile.TemporaryFile() as sheet_tmp:
             result = rewrite_sheet(zin, sheet.part, sheet_tmp, hook, widths, last)
             report.kept_existing = result.skipped_existing
-            styles_data = styles.data()
 
             def copy_sheet(out_fh) -> None:
                 sheet_tmp.seek(0)
@@ -255,18 +328,19 @@ def _fill_workbook(
 
             replacements = {sheet.part: copy_sheet}
             changed = {sheet.part}
-            if styles.changed and pmap.styles:
-                replacements[pmap.styles] = lambda fh: fh.write(styles_data)
-                changed.add(pmap.styles)
             additions: dict[str, bytes] = {}
             if extra_sheet is not None:
                 from .package import added_sheet
 
-                parts, additions, title = added_sheet(zin, pmap, extra_sheet[0], extra_sheet[1])
+                parts, additions, title = added_sheet(zin, pmap, extra_sheet[0], extra_sheet[1], styles)
                 for name, data in parts.items():
                     replacements[name] = (lambda d: lambda fh: fh.write(d))(data)
                     changed.add(name)
                 report.notes.append(f"sheet '{title}' added")
+            styles_data = styles.data()
+            if styles.changed and pmap.styles:
+                replacements[pmap.styles] = lambda fh: fh.write(styles_data)
+                changed.add(pmap.styles)
             _write_verified(
                 zin, dst, replacements, changed, sheet.part, frozenset(result.overwritten), additions or None
             )
@@ -274,8 +348,26 @@ def _fill_workbook(
     return report
 
 
-def _fill_from_roles(values: dict, options: FillOptions, report: FillReport, decimal_comma: bool | None):
-    """fill_line over a row's cells by role, counted in the report."""
+def _value_of(c, strings: list[str], recalculate: bool) -> object:
+    """A cell's value; a formula cell whose value cannot be read (none saved,
+    or the workbook asks for recalculation on opening) gives an UnsavedValue."""
+    value = cell_value(c, strings)
+    if c.find(_F) is None:
+        return value
+    if _blank(value):
+        return NO_SAVED_VALUE
+    return NOT_RECALCULATED if recalculate else value
+
+
+def _fill_from_roles(
+    values: dict,
+    options: FillOptions,
+    report: FillReport,
+    decimal_comma: bool | None,
+    others: list[object] | None = None,
+):
+    """fill_line over a row's cells by role, counted in the report; ``others``:
+    the row's cells of no role, when the formula or name column is not known."""
     line = fill_line(
         options.columns,
         values.get("formula"),
@@ -284,11 +376,14 @@ def _fill_from_roles(values: dict, options: FillOptions, report: FillReport, dec
         values.get("cas"),
         values.get("concentration"),
         values.get("unit"),
+        others=tuple(others or ()),
         mass_allowance=options.mass_allowance,
         decimal_comma=decimal_comma,
     )
     if line.filled:
         report.filled += 1
+        if line.partly:
+            report.partly += 1
     else:
         report.not_filled[line.verdict.split(":", 1)[0] if line.verdict else "not read"] += 1
     return line
@@ -304,17 +399,12 @@ def _covered(ranges: list[tuple[int, int]], index: int) -> bool:
 
 
 def _write_verified(zin, dst: Path, replacements, changed, sheet_part, overwritten, additions=None) -> None:
-    folder = dst.parent if str(dst.parent) else Path(".")
-    fd, tmp = tempfile.mkstemp(prefix=".cellchem-", suffix=dst.suffix, dir=folder)
-    os.close(fd)
-    try:
-        write_package(zin, tmp, replacements, additions)
+    def write(tmp: Path) -> None:
+        write_package(zin, str(tmp), replacements, additions)
         with zipfile.ZipFile(tmp) as zcheck:
             verify(zin, zcheck, changed, sheet_part, set(additions or {}), overwritten)
-        os.replace(tmp, dst)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+
+    replace_atomically(dst, write)
 
 
 # ---------------------------------------------------------------------------
@@ -363,7 +453,7 @@ def _csv_number(value: float, kind: str, decimal_comma: bool) -> str:
 
 
 def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
-    from .textfile import read_text_table
+    from .textfile import read_text_table, ungrouped_number
 
     report = FillReport(str(src))
     table = read_text_table(src)
@@ -374,11 +464,20 @@ def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
         text = text[1:]
     records = _raw_records(text)
     rows = [list(r) for r in table.rows]
+    columns = sheet_columns(options.layout_options(), "", single_table=True)
+    index = None
+    if columns.header_row is not None:
+        index = {line: i for i, line in enumerate(table.line_numbers)}.get(columns.header_row)
+        if index is None:
+            raise UnusableFile(f"'{src.name}': --header-row {columns.header_row}: no row starts on that line")
     try:
-        layout = find_layout(rows[:HEADER_SEARCH_ROWS], options.overrides)
+        layout = _layout(rows[: max(HEADER_SEARCH_ROWS, (index or 0) + 1)], columns, index)
     except CellchemError as exc:
-        raise UnusableFile(f"'{src.name}': {exc}") from None
+        raise UnusableFile(f"'{src.name}': nothing was written: {exc}") from None
     header_line = table.line_numbers[layout.header_index]
+    mass_index = layout.roles.get("molar_mass")
+    degraded = not ({"formula", "name"} <= layout.roles.keys())
+    role_columns = set(layout.roles.values())
     report.header_row = header_line
     width = len(layout.headers)
     report.columns = [(column_letter(width + k), c.header) for k, c in enumerate(options.columns)]
@@ -406,7 +505,10 @@ def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
         ):
             cells = table.rows[index]
             values = {role: (cells[i] if i < len(cells) else None) for role, i in layout.roles.items()}
-            line_result = _fill_from_roles(values, options, report, table.decimal_comma)
+            if mass_index is not None and isinstance(values.get("molar_mass"), str):
+                values["molar_mass"] = ungrouped_number(values["molar_mass"], table.decimal_comma)
+            others = [c for i, c in enumerate(cells) if i not in role_columns] if degraded else None
+            line_result = _fill_from_roles(values, options, report, table.decimal_comma, others)
             shown = []
             for column, value in zip(options.columns, line_result.values):
                 if value is None:
@@ -419,10 +521,6 @@ def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
             suffix = table.delimiter * (pad + 1) + encode_cells(shown)
         out_parts.append(body + suffix + ending)
     data = _encode_like(raw, "".join(out_parts), encoding)
-    folder = dst.parent if str(dst.parent) else Path(".")
-    fd, tmp = tempfile.mkstemp(prefix=".cellchem-", suffix=dst.suffix, dir=folder)
-    with os.fdopen(fd, "wb") as fh:
-        fh.write(data)
-    os.replace(tmp, dst)
+    replace_atomically(dst, lambda tmp: tmp.write_bytes(data))
     report.output = str(dst)
     return report

@@ -137,6 +137,7 @@ class PackageMap:
     sheets: tuple[SheetPart, ...]
     shared_strings: str | None
     styles: str | None
+    recalculate: bool = False  # the workbook asks for its formulas to be recalculated on opening
 
 
 def package_map(zin: zipfile.ZipFile) -> PackageMap:
@@ -158,7 +159,9 @@ def package_map(zin: zipfile.ZipFile) -> PackageMap:
         sheets.append(SheetPart(sheet.get("name", ""), rid, target, sheet.get("state", "visible")))
     shared = next((t for k, t in rels.values() if k == SHARED_STRINGS_REL), None)
     styles = next((t for k, t in rels.values() if k == STYLES_REL), None)
-    return PackageMap(workbook, tuple(sheets), shared, styles)
+    calc = root.find(_q("calcPr"))
+    recalculate = calc is not None and calc.get("fullCalcOnLoad", "0").strip() in ("1", "true")
+    return PackageMap(workbook, tuple(sheets), shared, styles, recalculate)
 
 
 def shared_strings(zin: zipfile.ZipFile, part: str | None) -> list[str]:
@@ -343,6 +346,7 @@ class Styles:
         self.root = etree.fromstring(data, _parser()) if data else None
         self.changed = False
         self._made: dict[tuple[int, int], int] = {}
+        self._added: dict[str, int | None] = {}
 
     def _xfs(self):
         if self.root is None:
@@ -371,6 +375,60 @@ class Styles:
         index = len(xfs) - 1
         self._made[key] = index
         return index
+
+    def _font(self, bold: bool = False, link: bool = False) -> int | None:
+        """The index of a new font like the default one, bold or in the
+        hyperlink's blue, underlined; None when the styles have no fonts."""
+        fonts = self.root.find(_q("fonts")) if self.root is not None else None
+        if fonts is None or len(fonts) == 0:
+            return None
+        font = etree.fromstring(etree.tostring(fonts[0]))
+        for child in list(font):
+            if etree.QName(child).localname in ("b", "u", "color"):
+                font.remove(child)
+        # children in the order of the schema: b, i, ..., u, vertAlign, sz, color, name, ...
+        if bold:
+            font.insert(0, etree.Element(_q("b")))
+        if link:
+            names = [etree.QName(c).localname for c in font]
+            at = names.index("sz") if "sz" in names else len(names)
+            font.insert(at, etree.Element(_q("u")))
+            names = [etree.QName(c).localname for c in font]
+            after = names.index("sz") + 1 if "sz" in names else at + 1
+            font.insert(after, etree.Element(_q("color"), rgb="FF0563C1"))
+        fonts.append(font)
+        fonts.set("count", str(len(fonts)))
+        return len(fonts) - 1
+
+    def added_format(
+        self, key: str, *, bold: bool = False, link: bool = False, wrap: bool = False, top: bool = False
+    ) -> int | None:
+        """The index of a new cell format (bold, a hyperlink's font, text at
+        the top of the cell, wrapped or not), made once per ``key``; None when
+        the workbook has no styles to add to."""
+        if key in self._added:
+            return self._added[key]
+        xfs = self._xfs()
+        if xfs is None or len(xfs) == 0:
+            return None
+        xf = etree.Element(_q("xf"), numFmtId="0", fontId=xfs[0].get("fontId", "0"), fillId="0", borderId="0")
+        xf.set("xfId", "0")
+        if bold or link:
+            font = self._font(bold=bold, link=link)
+            if font is None:
+                return None
+            xf.set("fontId", str(font))
+            xf.set("applyFont", "1")
+        if wrap or top:
+            xf.set("applyAlignment", "1")
+            alignment = etree.SubElement(xf, _q("alignment"), vertical="top")
+            if wrap:
+                alignment.set("wrapText", "1")
+        xfs.append(xf)
+        xfs.set("count", str(len(xfs)))
+        self.changed = True
+        self._added[key] = len(xfs) - 1
+        return self._added[key]
 
     def data(self) -> bytes | None:
         if not self.changed or self.root is None:
@@ -728,33 +786,97 @@ def verify(
 # ---------------------------------------------------------------------------
 
 
-def _sheet_xml(rows: list[list[object]]) -> bytes:
+FINDINGS_HEADERS = ("Cell", "Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion")
+_FINDINGS_WIDTHS = (8, 14, 6, 8, 13, 8, 70, 26)
+_WRAPPED = (6, 7)  # the columns whose text is wrapped: Message and Suggestion
+POINTS_PER_LINE = 15.0  # the height of a line of 11-point text, as spreadsheet programs set it
+
+
+def text_lines(text: object, width: float) -> int:
+    """How many lines a text takes when wrapped in a column ``width``
+    characters wide (a character of the default font is narrower than the
+    digit the width is counted in: about 1.1 characters a unit, common practice)."""
+    per_line = max(1, int(width * 1.1))
+    if text is None or text == "":
+        return 1
+    return sum(max(1, -(-len(part) // per_line)) for part in str(text).split("\n"))
+
+
+def _sheet_ref(sheet: str, cell: str) -> str:
+    return "'" + sheet.replace("'", "''") + "'!" + cell
+
+
+def _sheet_xml(rows: list[list[object]], formats: dict[str, int | None] | None = None) -> bytes:
+    """A findings sheet: a bold header row, frozen and filtered; Message and
+    Suggestion wrapped with each row as high as its text; the first column
+    ('Cell') a link to the finding's cell when the rows follow
+    FINDINGS_HEADERS; printed on A4 landscape, one page wide, the header
+    repeated (its print titles are a defined name of the workbook)."""
+    formats = formats or {}
+    findings = bool(rows) and tuple(rows[0]) == FINDINGS_HEADERS
     root = etree.Element(_q("worksheet"), nsmap={None: MAIN_NS, "r": REL_NS})
+    props = etree.SubElement(root, _q("sheetPr"))
+    etree.SubElement(props, _q("pageSetUpPr"), fitToPage="1")
     views = etree.SubElement(root, _q("sheetViews"))
     view = etree.SubElement(views, _q("sheetView"), workbookViewId="0")
     etree.SubElement(view, _q("pane"), ySplit="1", topLeftCell="A2", activePane="bottomLeft", state="frozen")
     etree.SubElement(root, _q("sheetFormatPr"), defaultRowHeight="15")
     cols = etree.SubElement(root, _q("cols"))
-    for i, width in enumerate((14, 7, 8, 14, 10, 90, 30), 1):
+    widths = _FINDINGS_WIDTHS if findings else (14, 7, 8, 14, 10, 90, 30)
+    for i, width in enumerate(widths, 1):
         etree.SubElement(cols, _q("col"), min=str(i), max=str(i), width=str(width), customWidth="1")
     data = etree.SubElement(root, _q("sheetData"))
+    links: list[tuple[str, str, str]] = []
     for r, values in enumerate(rows, 1):
         row = etree.SubElement(data, _q("row"), r=str(r))
+        if r > 1 and findings:
+            lines = max(text_lines(values[c], widths[c]) for c in _WRAPPED if c < len(values))
+            if lines > 1:
+                row.set("ht", f"{lines * POINTS_PER_LINE:g}")
+                row.set("customHeight", "1")
         for c, value in enumerate(values):
             if value is None or value == "":
                 continue
-            row.append(_make_cell(r, NewCell(c, value, None)))
+            style = None
+            if r == 1:
+                style = formats.get("bold")
+            elif findings and c in _WRAPPED:
+                style = formats.get("wrap")
+            elif findings and c == 0:
+                style = formats.get("link")
+            elif findings:
+                style = formats.get("top")
+            row.append(_make_cell(r, NewCell(c, value, style)))
+        if r > 1 and findings and values and values[0] and values[1]:
+            links.append((f"A{r}", _sheet_ref(str(values[1]), str(values[0])), str(values[0])))
     if rows:
         last = column_letter(max(len(r) for r in rows) - 1)
         etree.SubElement(root, _q("autoFilter"), ref=f"A1:{last}{len(rows)}")
+    if links:
+        hyperlinks = etree.SubElement(root, _q("hyperlinks"))
+        for ref, location, display in links:
+            etree.SubElement(hyperlinks, _q("hyperlink"), ref=ref, location=location, display=display)
+    etree.SubElement(
+        root, _q("pageMargins"), left="0.5", right="0.5", top="0.6", bottom="0.6", header="0.3", footer="0.3"
+    )
+    etree.SubElement(
+        root, _q("pageSetup"), paperSize="9", orientation="landscape", fitToWidth="1", fitToHeight="0"
+    )
     return etree.tostring(root, xml_declaration=True, encoding="UTF-8", standalone=True)
 
 
 def added_sheet(
-    zin: zipfile.ZipFile, pmap: PackageMap, title: str, rows: list[list[object]]
+    zin: zipfile.ZipFile,
+    pmap: PackageMap,
+    title: str,
+    rows: list[list[object]],
+    styles: Styles | None = None,
 ) -> tuple[dict[str, bytes], dict[str, bytes], str]:
     """The parts to change and add for a new sheet of plain cells: (changed
-    parts -> new bytes, new parts -> bytes, the sheet's title as written)."""
+    parts -> new bytes, new parts -> bytes, the sheet's title as written).
+    With ``styles`` (the workbook's, changed in place) the header is bold,
+    long text wrapped and the links shown as links; the header row is
+    repeated on each printed page."""
     names = set(zin.namelist())
     folder = posixpath.dirname(pmap.workbook)
     n = 1
@@ -780,6 +902,8 @@ def added_sheet(
     etree.SubElement(
         sheets, _q("sheet"), {"name": name, "sheetId": str(max(ids, default=0) + 1), _q("id", REL_NS): rid}
     )
+    if rows:
+        _print_titles(wb, sheets, len(sheets) - 1, name)
     etree.SubElement(
         rels,
         _q("Relationship", PKG_REL_NS),
@@ -793,5 +917,30 @@ def added_sheet(
     def out(el: etree._Element) -> bytes:
         return etree.tostring(el, xml_declaration=True, encoding="UTF-8", standalone=True)
 
+    formats: dict[str, int | None] = {}
+    if styles is not None:
+        formats = {
+            "bold": styles.added_format("bold", bold=True),
+            "wrap": styles.added_format("wrap", wrap=True),
+            "link": styles.added_format("link", link=True, top=True),
+            "top": styles.added_format("top", top=True),
+        }
     changed = {pmap.workbook: out(wb), rels_part: out(rels), "[Content_Types].xml": out(ct)}
-    return changed, {part: _sheet_xml(rows)}, name
+    return changed, {part: _sheet_xml(rows, formats)}, name
+
+
+_BEFORE_DEFINED_NAMES = ("sheets", "functionGroups", "externalReferences")
+
+
+def _print_titles(wb: etree._Element, sheets: etree._Element, position: int, name: str) -> None:
+    """Add the defined name that repeats row 1 of sheet ``position`` on each printed page."""
+    defined = wb.find(_q("definedNames"))
+    if defined is None:
+        defined = etree.Element(_q("definedNames"))
+        anchor = sheets
+        for child in wb:
+            if etree.QName(child).localname in _BEFORE_DEFINED_NAMES:
+                anchor = child
+        anchor.addnext(defined)
+    item = etree.SubElement(defined, _q("definedName"), name="_xlnm.Print_Titles", localSheetId=str(position))
+    item.text = _sheet_ref(name, "$1:$1")

@@ -12,8 +12,9 @@ from __future__ import annotations
 import csv
 import json
 import os
+import stat
 import tempfile
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import asdict, dataclass
 from pathlib import Path
 
@@ -47,17 +48,52 @@ def defuse(text: str) -> str:
     return text
 
 
-def _replace(path: Path, write) -> None:
-    """Write to a temporary file beside ``path``, then move it into place."""
+def _umask() -> int:
+    """The process's file-creation mask, read without changing it where the
+    system shows it (Linux), else set and restored at once."""
+    try:
+        with open("/proc/self/status", encoding="ascii", errors="replace") as fh:
+            for line in fh:
+                if line.startswith("Umask:"):
+                    return int(line.split()[1], 8)
+    except (OSError, ValueError, IndexError):
+        pass
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
+def new_file_mode(path: str | Path) -> int:
+    """The permissions an output file gets: those of the file it replaces, or
+    for a new file what the user's umask gives a file any program creates
+    (0o666 less the mask; a temporary file would be owner-only)."""
+    try:
+        return stat.S_IMODE(os.stat(path).st_mode)
+    except OSError:
+        return 0o666 & ~_umask()
+
+
+def replace_atomically(path: str | Path, write: Callable[[Path], None]) -> None:
+    """Write to a temporary file beside ``path`` with ``write(temporary path)``,
+    give it the permissions of ``new_file_mode``, then move it into place; on
+    any failure the temporary file is removed and ``path`` is left as it was."""
     path = Path(path)
+    mode = new_file_mode(path)
     fd, tmp = tempfile.mkstemp(prefix=".cellchem-", suffix=path.suffix, dir=path.parent or ".")
     os.close(fd)
     try:
         write(Path(tmp))
+        try:
+            os.chmod(tmp, mode)
+        except OSError:  # a file system without Unix permissions: its own rules apply
+            pass
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+
+
+_replace = replace_atomically
 
 
 def write_json(path: str | Path, records: Sequence[FindingRecord]) -> None:
@@ -93,14 +129,39 @@ def _text_cell(ws, row: int, col: int, value: object):
     return cell
 
 
+_WORKBOOK_WIDTHS = (24, 14, 6, 8, 13, 8, 70, 26)
+_WRAPPED_COLUMNS = (1, 7, 8)  # File, Message and Suggestion (1-based)
+
+
 def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_rows: Sequence[tuple]) -> None:
     """A findings workbook: sheet 'Findings' (a table with a header row, a
-    filter, frozen header, one finding a row with its severity as a word) and
-    sheet 'Summary' (label, value rows)."""
+    filter, frozen header, one finding a row with its severity as a word, in
+    the order given) and sheet 'Summary' (label, value rows).
+
+    Made to be read on screen and on paper in any spreadsheet program: long
+    text wraps inside its cell and each row is as high as its wrapped text
+    (a program that does not size rows itself shows no text over the row
+    below), and both sheets print on A4 landscape, one page wide, with the
+    header row repeated on every page."""
     from openpyxl import Workbook
     from openpyxl.styles import Alignment, Font
     from openpyxl.utils import get_column_letter
+    from openpyxl.worksheet.properties import PageSetupProperties
     from openpyxl.worksheet.table import Table, TableStyleInfo
+
+    from .package import POINTS_PER_LINE, text_lines
+
+    wrap = Alignment(wrap_text=True, vertical="top")
+    top = Alignment(vertical="top")
+
+    def for_print(sheet) -> None:
+        sheet.page_setup.orientation = "landscape"
+        sheet.page_setup.paperSize = sheet.PAPERSIZE_A4
+        sheet.page_setup.fitToWidth = 1
+        sheet.page_setup.fitToHeight = 0
+        sheet.sheet_properties.pageSetUpPr = PageSetupProperties(fitToPage=True)
+        sheet.print_title_rows = "1:1"
+        sheet.page_margins.left = sheet.page_margins.right = 0.5
 
     wb = Workbook()
     ws = wb.active
@@ -109,10 +170,11 @@ def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_r
     for c, h in enumerate(headers, 1):
         _text_cell(ws, 1, c, h).font = Font(bold=True)
     for i, r in enumerate(records, 2):
-        for c, value in enumerate(
-            (r.file, r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion), 1
-        ):
-            _text_cell(ws, i, c, value)
+        values = (r.file, r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion)
+        for c, value in enumerate(values, 1):
+            _text_cell(ws, i, c, value).alignment = wrap if c in _WRAPPED_COLUMNS else top
+        lines = max(text_lines(values[c - 1], _WORKBOOK_WIDTHS[c - 1]) for c in _WRAPPED_COLUMNS)
+        ws.row_dimensions[i].height = lines * POINTS_PER_LINE
     last = max(2, len(records) + 1)
     if not records:
         for c in range(1, len(headers) + 1):
@@ -122,19 +184,21 @@ def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_r
     table.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
     ws.add_table(table)
     ws.freeze_panes = "A2"
-    for c, width in enumerate((28, 16, 7, 8, 14, 10, 90, 30), 1):
+    for c, width in enumerate(_WORKBOOK_WIDTHS, 1):
         ws.column_dimensions[get_column_letter(c)].width = width
-    for row in ws.iter_rows(min_row=2, min_col=7, max_col=7):
-        for cell in row:
-            cell.alignment = Alignment(wrap_text=True, vertical="top")
+    for_print(ws)
     summary = wb.create_sheet("Summary")
     _text_cell(summary, 1, 1, "Item").font = Font(bold=True)
     _text_cell(summary, 1, 2, "Value").font = Font(bold=True)
     for i, (label, value) in enumerate(summary_rows, 2):
-        _text_cell(summary, i, 1, label)
-        _text_cell(summary, i, 2, value)
-    summary.column_dimensions["A"].width = 60
-    summary.column_dimensions["B"].width = 40
+        _text_cell(summary, i, 1, label).alignment = wrap
+        _text_cell(summary, i, 2, value).alignment = wrap
+        summary.row_dimensions[i].height = (
+            max(text_lines(label, 100), text_lines(value, 30)) * POINTS_PER_LINE
+        )
+    summary.column_dimensions["A"].width = 100
+    summary.column_dimensions["B"].width = 30
     summary.freeze_panes = "A2"
+    for_print(summary)
 
     _replace(Path(path), lambda tmp: wb.save(tmp))

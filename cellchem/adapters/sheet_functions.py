@@ -35,6 +35,7 @@ from .. import (
 )
 from ..audit import ERROR, NOTE, WARNING, check_line
 from ..errors import CellchemError
+from ..substances import edition, substance
 from .cells import (
     ZERO_IS_AMBIGUOUS,
     ZERO_IS_EMPTY,
@@ -239,6 +240,36 @@ def cc_checkline(name=None, formula=None, molar_mass=None, cas=None):
 )
 def cc_casvalid(cas=None):
     return cellwise(lambda c: cas_is_valid(text(c, "cas")), [cas])
+
+
+@_register(
+    "CC_SUBSTANCE",
+    "What the substance table holds for a CAS RN: its formula, name or molar mass (open data, PubChem).",
+    [
+        A("cas", "the CAS RN, e.g. 7758-99-8"),
+        A("what", "formula (the default), name or molar mass"),
+    ],
+    "text, or a number in g/mol for molar mass; a refusal for a CAS RN the table does not hold",
+    '=CC_SUBSTANCE("7758-99-8","formula") gives CuH10O9S',
+)
+def cc_substance(cas=None, what=None):
+    def one(c, w):
+        record = substance(text(c, "cas"))
+        if record is None:
+            raise CellchemError(f"CAS RN {text(c, 'cas')} is not in the substance table ({edition()})")
+        kind = (text(w, "what") if not blank(w) else "formula").strip().casefold().replace("_", " ")
+        note = "" if record.certain else f" (uncertain record: {record.doubt})"
+        if note and kind in ("formula", "molar mass", "mass"):
+            raise CellchemError(f"the substance table's record for {record.cas} is uncertain: {record.doubt}")
+        if kind == "formula":
+            return record.formula
+        if kind == "name":
+            return record.name + note
+        if kind in ("molar mass", "mass", "mw"):
+            return float(record.molar_mass)
+        raise CellchemError(f"what: expected formula, name or molar mass, read {text(w, 'what')!r}")
+
+    return cellwise(one, [cas, what])
 
 
 @_register(

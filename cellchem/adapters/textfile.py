@@ -234,6 +234,36 @@ def parse_number(text: str, decimal_comma: bool) -> float | None:
     return value
 
 
+_MASS_UNIT = re.compile(r"\s*(?:g\s*/\s*mol|g\s*·\s*mol⁻¹|g\s*mol-1)\s*$", re.IGNORECASE)
+
+
+def ungrouped_number(text: str, decimal_comma: bool) -> str:
+    """A number cell with its digit grouping taken out when the grouping is
+    certain, the decimal mark and any g/mol unit kept as written: ``1.235,86``
+    in a decimal-comma file is ``1235,86``, ``1 235,86`` too, ``1,235.86`` in
+    a decimal-point file is ``1235.86``. Anything else is given back as it is:
+    text that is no number, a number without grouping, and a grouping that
+    could also be a decimal mark (``1.235`` in a decimal-comma file), which
+    the reader of the cell refuses or reads by its own rules.
+
+    >>> ungrouped_number("1.235,86", True), ungrouped_number("1 235,86 g/mol", True)
+    ('1235,86', '1235,86 g/mol')
+    >>> ungrouped_number("1.235", True), ungrouped_number("58,44", True), ungrouped_number("n/a", True)
+    ('1.235', '58,44', 'n/a')
+    """
+    if not isinstance(text, str):
+        return text
+    unit = _MASS_UNIT.search(text)
+    number = text[: unit.start()] if unit else text
+    stripped = number.strip()
+    parts = _number_parts(stripped, decimal_comma)
+    group = "." if decimal_comma else ","
+    grouped = any(sep in stripped for sep in group + _SPACES)
+    if parts is None or parts.ambiguous or not grouped:
+        return text
+    return _written(parts, decimal_comma) + (unit.group(0) if unit else "")
+
+
 # --- numbers -------------------------------------------------------------------------------------
 
 

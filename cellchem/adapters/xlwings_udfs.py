@@ -108,6 +108,14 @@ def CC_CASVALID(cas=None):
 
 
 @_func
+@_arg("cas", "the CAS RN, e.g. 7758-99-8")
+@_arg("what", "formula (the default), name or molar mass")
+def CC_SUBSTANCE(cas=None, what=None):
+    """What the substance table holds for a CAS RN: its formula, name or molar mass (open data, PubChem)."""
+    return sf.cc_substance(cas, what)
+
+
+@_func
 @_arg("formula", "one formula, e.g. Al2(SO4)3")
 def CC_IONS(formula=None):
     """The ions a solute gives in water, spilled as rows of ion, count and charge."""
