@@ -23,8 +23,16 @@ from .formula import Formula, case_readings, parse_formula
 from .ions import catalog, counts_key
 from .mass import molar_mass
 from .memo import Memo, typed
-from .names import known_hydrates, name_from_formula, read_name, same_substance
-from .substances import composition_key, name_match
+from .names import (
+    fold_name,
+    hydrate_word,
+    known_hydrates,
+    name_core,
+    name_from_formula,
+    read_name,
+    same_substance,
+)
+from .substances import by_composition, composition_key, name_match
 from .substances import substance as substance_record
 from .tables import read_table
 from .witness import CAS, FORMULA, MASS, NAME, Dispute, Witness, formula_of_record, weigh
@@ -685,6 +693,9 @@ def check_line(
     record_findings, cas_witness = _cas_witness(cas_number, f, name_witness)
     if cas_witness is not None:
         witnesses.append(cas_witness)
+        if name_witness is None and reading is not None:
+            name_findings, name_witness = _acid_salt_name(str(name).strip(), reading, name_findings)
+            witnesses += [name_witness] if name_witness is not None else []
     disputes = weigh(witnesses, stated[0] if stated is not None else None, matches)
     findings.extend(cas_findings)
     findings.extend(name_findings)
@@ -702,8 +713,11 @@ def check_line(
         and not any(d.role in ("", "?") for d in disputes)
     ):
         findings.append(_mass_finding(f, mass, stated[0], tolerance, formula_findings, named=name_witness))
+    findings.extend(_other_substance_finding(name_witness, cas_witness, disputes))
     if cas_number and cas_findings and cas_findings[0].severity == ERROR:
         findings = _suggest_cas(findings, cas_number, witnesses)
+    elif cas_number and cas_witness is None and not record_findings:
+        findings.extend(_unknown_cas(cas_number, witnesses))
     return LineResult(f, mass, tuple(findings))
 
 
@@ -797,8 +811,14 @@ def _name_witness(name: object, f: Formula | None, formula_blank: bool = False):
         findings = _refused_name(text, exc, f)
         witness = None
         if f is not None and exc.choices and any(x.severity == NOTE for x in findings):
-            # the formula is one of the name's readings: the name stands with it, weakly
-            witness = Witness(NAME, f, f"the name '{text}'", grounds=False)
+            # the formula is one of the name's readings: the name stands with that reading
+            # (with the water the name states); an open charge settled by the formula is a
+            # full witness, a trade name used for several compounds a weak one
+            dry = f.anhydrous()
+            fits = [parse_formula(c) for c in exc.choices if _same(parse_formula(c).anhydrous(), dry)]
+            reading_of_name = fits[0] if len(fits) == 1 and fits[0].water else f  # water 0: not stated
+            open_charge = getattr(exc, "reason", "") == "open-charge"
+            witness = Witness(NAME, reading_of_name, f"the name '{text}'", grounds=open_charge)
         elif getattr(exc, "reason", "") in ("unknown", ""):
             witness = _table_name_witness(text)
             if witness is not None:
@@ -819,8 +839,40 @@ def _name_witness(name: object, f: Formula | None, formula_blank: bool = False):
     return findings, Witness(NAME, named, said), reading
 
 
+def _acid_salt_name(text: str, reading, findings: list[Finding]) -> tuple[list[Finding], Witness | None]:
+    """A name that reads as a salt whose formula keeps acid hydrogens the name does not
+    state ('sodium carbonate' on NaHCO3) is a warning alone; on a line with a CAS RN it is
+    a witness like any other when the substance table gives the name exactly to the
+    compound cellchem reads (sodium carbonate is Na2CO3 there too), so the CAS RN and the
+    molar mass can settle which cell is wrong."""
+    silent = [
+        x for x in findings if x.check == "name" and x.severity == WARNING and "acid's hydrogens" in x.message
+    ]
+    if not silent:
+        return findings, None
+    named = parse_formula(reading.formula)
+    core, water = name_core(text)
+    found = name_match(text) or (name_match(core) if water in ("", 0) else None)
+    if found is None or found[1] != "name" or not found[0].certain:
+        return findings, None
+    record_formula = formula_of_record(found[0])
+    if record_formula is None or composition_key(record_formula) != composition_key(named):
+        return findings, None
+    kept = [x for x in findings if x not in silent]
+    return kept, Witness(NAME, named, f"the name '{text}'", record=found[0])
+
+
 def _table_name_witness(text: str) -> Witness | None:
     found = name_match(text)
+    if found is None:
+        # the name without grade, form and strength words ('Ethanol, absolute, AR'), with
+        # the water it states as the table writes it ('citric acid monohydrate')
+        core, water = name_core(text)
+        if core and core != fold_name(text):
+            if water == "" or water == 0:
+                found = name_match(core)
+            elif water is not None:
+                found = name_match(f"{core} {hydrate_word(water)}")
     if found is None:
         return None
     record, how = found
@@ -840,12 +892,15 @@ def _cas_witness(
     if record is None:
         return [], None
     if not record.certain:
+        if _record_name_fits(record, [g for g in (f, name.formula if name else None) if g is not None]):
+            return [], None  # its name says the line's substance: nothing to doubt on this line
         return [
             Finding(
                 "cas",
                 NOTE,
-                f"the substance table's record for CAS RN {number} ({record.name}, {record.formula}) is"
-                f" uncertain ({record.doubt}); the CAS RN is not weighed against the other cells",
+                f"CAS RN {number} not checked: the substance table's record ({record.name},"
+                f" {record.formula}) failed a check when the table was built"
+                f" ({record.doubt.split(': ')[0]})",
                 "",
                 "cas",
             )
@@ -854,6 +909,18 @@ def _cas_witness(
     if g is None:
         return [], None
     return [], Witness(CAS, g, f"CAS {number} ({record.name})", record=record)
+
+
+def _record_name_fits(record, formulas: list[Formula]) -> bool:
+    """Whether cellchem reads an uncertain record's name as the line's composition: the
+    record's formula is in doubt, but its name agrees with the line (the record of
+    cobalt(II) chloride hexahydrate whose formula lost its water)."""
+    try:
+        readings = [read_name(record.name).formula]
+    except CellchemError as exc:  # a name that leaves the charge open: any of its readings
+        readings = list(exc.choices or ())
+    keys = {composition_key(g) for g in formulas if not g.has_unknown_count}
+    return any(composition_key(parse_formula(r)) in keys for r in readings)
 
 
 def _dispute_finding(
@@ -868,6 +935,13 @@ def _dispute_finding(
             else "name"
         )
         message = d.message + (f" ({how})" if how else "")
+        if not d.firm:
+            message = message.replace(
+                ", so the name is the cell to check",
+                "; the name matches only a synonym in the substance table, and synonyms may be loose:"
+                " check the name against the label",
+            )
+            return Finding(check, NOTE, message, d.suggestion, "name" if d.role == NAME else "formula")
         return Finding(check, ERROR, message, d.suggestion, "name" if d.role == NAME else "formula")
     if d.role == MASS:
         hint = _hydrate_hint_of(f, stated, tolerance) if f is not None and stated is not None else ""
@@ -886,7 +960,8 @@ def _dispute_finding(
 
 def _hydrate_hint_of(f: Formula, value: float, tolerance: float) -> str:
     """'; 159.61 g/mol is the molar mass of CuSO4' when a stated molar mass is another
-    hydrate's that exists (data/hydrates.csv), or the anhydrous salt's; '' otherwise."""
+    hydrate's that exists (data/hydrates.csv), or the anhydrous salt's; a hint of the
+    school weights when it is the molar mass they give; '' otherwise."""
     dry = f.anhydrous()
     for n in sorted({0, *known_hydrates(dry)}):
         other = dry.with_water(n)
@@ -894,6 +969,11 @@ def _hydrate_hint_of(f: Formula, value: float, tolerance: float) -> str:
             continue
         if abs(value - float(molar_mass(other))) <= tolerance:
             return f"; {value:g} g/mol is the molar mass of {other.text()}"
+    if not f.has_unknown_count and abs(value - school_mass(f)) <= tolerance:
+        return (
+            f"; {value:g} g/mol is the molar mass with the rounded atomic weights of school data books"
+            " (data/school_weights.csv): the 'school' weights accept it"
+        )
     return ""
 
 
@@ -947,6 +1027,98 @@ def _suggest_cas(findings: list[Finding], digits: str, witnesses: list[Witness])
             )
         out.append(x)
     return out
+
+
+def _unknown_cas(number: str, witnesses: list[Witness]) -> list[Finding]:
+    """A well-formed CAS RN the table does not hold, one typing slip (two neighbouring
+    digits swapped, one digit changed) from the number the table gives the line's
+    substance: the slip passed the check digit (61-95-0 for 61-90-5)."""
+    compositions = [w.formula for w in witnesses if w.role != CAS and w.grounds]
+    if len(compositions) < 1:
+        return []
+    keys = {composition_key(c) for c in compositions}
+    if len(keys) != 1:
+        return []
+    near = [s for s in cas_neighbours(number) if s.certain and composition_key(s.formula) in keys]
+    if len(near) != 1:
+        return _not_in_table(number, witnesses, keys)
+    return [
+        Finding(
+            "cas",
+            ERROR,
+            f"CAS RN {number} is not in the substance table, and {near[0].cas}, one typing slip away, is the"
+            f" number of the line's substance ({near[0].name}): the slip passes the check digit",
+            near[0].cas,
+            "cas",
+        )
+    ]
+
+
+def _not_in_table(number: str, witnesses: list[Witness], keys: set[str]) -> list[Finding]:
+    """A warning for a well-formed CAS RN the table does not hold on a line whose substance
+    the table holds under another number: the name matched to one record, or the one
+    certain record of the line's composition. Not an error: a substance may have more
+    numbers than the table knows."""
+    named = [w.record for w in witnesses if w.role == NAME and w.record is not None and w.grounds]
+    key = next(iter(keys))
+    # a composition names one substance only without carbon: organic formulas have isomers
+    carbon = any(w.formula.counts.get("C") for w in witnesses if composition_key(w.formula) == key)
+    known = named or ([] if carbon else [r for r in by_composition(key) if r.certain])
+    if len(known) != 1 or known[0].cas == number:
+        return []
+    record = known[0]
+    return [
+        Finding(
+            "cas",
+            WARNING,
+            f"CAS RN {number} is not in the substance table, which gives the line's substance"
+            f" ({record.name}) as {record.cas}: check the number on the label or the SDS",
+            "",
+            "cas",
+        )
+    ]
+
+
+_FORM_WORDS = re.compile(
+    r"^(?:(?:d|l|dl|rac|cis|trans|o|m|p|ortho|meta|para|n)-|\((?:[rs+\-±]|r,s|\+/-)\)-?|[dl]\([+\-]\)-)"
+)
+
+
+def _name_of_form(name: str) -> str:
+    """A substance name without the descriptor of its stereo or ring-position form
+    ('l-alanine', '(s)-alanine' and 'dl-alanine' are all 'alanine'; 'o-xylene' is 'xylene')."""
+    folded = fold_name(name)
+    while True:
+        shorter = _FORM_WORDS.sub("", folded)
+        if shorter == folded:
+            return folded
+        folded = shorter
+
+
+def _other_substance_finding(name: Witness | None, cas: Witness | None, disputes: list) -> list[Finding]:
+    """The name, matched exactly to one record of the substance table, and the CAS RN name
+    two substances of the same formula (isomers: isobutanol and butan-2-ol): no majority of
+    cells can say which is wrong, so the finding names both and suggests nothing. An error
+    when the names differ as substances, a warning when they differ only in the form
+    descriptor (l-alanine and dl-alanine; xylene and o-xylene) or the name is a synonym."""
+    if name is None or cas is None or name.record is None or cas.record is None or disputes:
+        return []
+    a, b = name.record, cas.record
+    if a.cas == b.cas or composition_key(name.formula) != composition_key(cas.formula):
+        return []
+    same_form = _name_of_form(a.name) == _name_of_form(b.name)
+    severity = ERROR if name.grounds and not same_form else WARNING
+    how = "another form of it" if same_form else "another substance of the same formula"
+    return [
+        Finding(
+            "cas",
+            severity,
+            f"CAS RN {b.cas} belongs to {b.name} ({b.formula}), {how}; the name is {a.name}, {a.cas} in"
+            " the substance table: either the name or the CAS RN is wrong",
+            "",
+            "cas",
+        )
+    ]
 
 
 def cas_neighbours(digits: str) -> list:
@@ -1049,11 +1221,13 @@ NO_SAVED_VALUE = UnsavedValue()
 NOT_RECALCULATED = UnsavedValue(recalculate=True)
 
 
-def _guarded(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
+def _guarded(formula, mass, name, cas, allowance, decimal_comma, weights=STANDARD_WEIGHTS) -> LineResult:
     """check_line, with a failure of cellchem's own (not of the input) kept to
     this line: one bad row never hides the rest of a file."""
     try:
-        return check_line(formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma)
+        return check_line(
+            formula, mass, name, cas, mass_allowance=allowance, decimal_comma=decimal_comma, weights=weights
+        )
     except RecursionError as exc:
         why = f"{type(exc).__name__}"
     except Exception as exc:  # a defect of cellchem: reported on the row, never raised
@@ -1074,11 +1248,13 @@ def _guarded(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
     )
 
 
-def _check_line_cached(formula, mass, name, cas, allowance, decimal_comma) -> LineResult:
+def _check_line_cached(
+    formula, mass, name, cas, allowance, decimal_comma, weights=STANDARD_WEIGHTS
+) -> LineResult:
     """check_line, remembered for repeated lines (stock lists repeat compounds)."""
     return _LINES.get(
-        (typed(formula, mass, name, cas), allowance, decimal_comma),
-        lambda: _guarded(formula, mass, name, cas, allowance, decimal_comma),
+        (typed(formula, mass, name, cas), allowance, decimal_comma, weights),
+        lambda: _guarded(formula, mass, name, cas, allowance, decimal_comma, weights),
     )
 
 
@@ -1098,6 +1274,7 @@ def audit_row(
     *,
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
+    weights: str = STANDARD_WEIGHTS,
 ) -> RowResult:
     """Audit one data row of a table whose layout is known.
 
@@ -1123,7 +1300,13 @@ def audit_row(
     if all(_blank(values[r]) for r in values):
         return RowResult(row, NOT_CHECKED, "no name, formula, molar mass or CAS RN", (), letters)
     result = _check_line_cached(
-        values["formula"], values["molar_mass"], values["name"], values["cas"], mass_allowance, decimal_comma
+        values["formula"],
+        values["molar_mass"],
+        values["name"],
+        values["cas"],
+        mass_allowance,
+        decimal_comma,
+        weights,
     )
     findings = unsaved + result.findings
     if any(f.check == INTERNAL for f in findings):
@@ -1204,6 +1387,7 @@ def iter_audit(
     row_numbers: Iterable[int] | None = None,
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
+    weights: str = STANDARD_WEIGHTS,
 ) -> Iterable[RowResult]:
     """Audit the data rows after a header, one at a time (memory does not grow
     with the table). ``first_row`` is the 1-based number of the first row
@@ -1211,7 +1395,9 @@ def iter_audit(
     numbers = iter(row_numbers) if row_numbers is not None else None
     for i, cells in enumerate(rows):
         number = next(numbers) if numbers is not None else first_row + i
-        yield audit_row(cells, layout, number, mass_allowance=mass_allowance, decimal_comma=decimal_comma)
+        yield audit_row(
+            cells, layout, number, mass_allowance=mass_allowance, decimal_comma=decimal_comma, weights=weights
+        )
 
 
 def audit_rows(
@@ -1221,6 +1407,7 @@ def audit_rows(
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
     header_row: int | None = None,
+    weights: str = STANDARD_WEIGHTS,
 ) -> TableAudit:
     """Audit a table given as plain rows (lists of cell values), header
     included: the checks of ``cellchem audit`` without a workbook.
@@ -1235,6 +1422,7 @@ def audit_rows(
         decimal_comma: whether text numbers use a decimal comma.
         header_row: the 1-based row of the header, when it is known (it is
             found among the first 20 rows otherwise).
+        weights: ``'standard'`` or ``'school'``, as for ``check_line``.
 
     Returns:
         A TableAudit: ``layout``, ``rows`` (a RowResult per data row, numbered
@@ -1254,7 +1442,12 @@ def audit_rows(
     summary = Summary()
     results = []
     for r in iter_audit(
-        body, layout, layout.header_index + 2, mass_allowance=mass_allowance, decimal_comma=decimal_comma
+        body,
+        layout,
+        layout.header_index + 2,
+        mass_allowance=mass_allowance,
+        decimal_comma=decimal_comma,
+        weights=weights,
     ):
         summary.add(r)
         results.append(r)

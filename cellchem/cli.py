@@ -13,7 +13,7 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from . import __version__
-from .audit import ERROR, NOTE, WARNING, check_line
+from .audit import ERROR, NOTE, STANDARD_WEIGHTS, WARNING, WEIGHT_PRESETS, check_line
 
 EXIT_CLEAN = 0
 EXIT_FINDINGS = 1
@@ -301,6 +301,7 @@ def _cmd_audit(args: argparse.Namespace) -> int:
         delimiter=args.delimiter,
         mass_allowance=args.mass_allowance,
         column_options=column_options,
+        weights=args.weights,
     )
     run = AuditRun()
     for f in args.files:
@@ -364,6 +365,7 @@ def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> No
         sheet=args.sheet,
         mass_allowance=args.mass_allowance,
         column_options=column_options,
+        weights=args.weights,
     )
     for f in usable:
         src = Path(f.path)
@@ -405,6 +407,7 @@ def _cmd_fill(args: argparse.Namespace) -> int:
             overwrite=args.overwrite,
             mass_allowance=args.mass_allowance,
             column_options=column_options,
+            weights=args.weights,
         )
     except (CellchemError, UnusableFile) as exc:
         raise UsageError(str(exc)) from None
@@ -557,6 +560,14 @@ def build_parser() -> argparse.ArgumentParser:
         " g/mol or 0.01 %%, whichever is larger), e.g. --mass-allowance 0.05",
     )
     audit.add_argument(
+        "--weights",
+        choices=WEIGHT_PRESETS,
+        default=STANDARD_WEIGHTS,
+        help="atomic weights a stated molar mass may be computed with: 'standard' (IUPAC/CIAAW, the"
+        " default) or 'school', which also accepts the rounded weights of school data books (Cl 35.5,"
+        " Cu 63.5), e.g. --weights school",
+    )
+    audit.add_argument(
         "--annotate",
         nargs="?",
         const=True,
@@ -626,6 +637,12 @@ def build_parser() -> argparse.ArgumentParser:
     fill.add_argument(
         "--mass-allowance", type=float, metavar="G_PER_MOL", help="as for audit, e.g. --mass-allowance 0.05"
     )
+    fill.add_argument(
+        "--weights",
+        choices=WEIGHT_PRESETS,
+        default=STANDARD_WEIGHTS,
+        help="as for audit, e.g. --weights school",
+    )
     fill.set_defaults(run=_cmd_fill)
 
     calc = sub.add_parser(
@@ -674,6 +691,12 @@ def main(argv: Sequence[str] | None = None) -> int:
     except UsageError as exc:
         print(f"cellchem: {exc}", file=sys.stderr)
         return EXIT_USAGE
+    except BrokenPipeError:  # the output was piped to a program that stopped reading (head, less)
+        import os
+
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())  # no second error when Python flushes stdout at exit
+        return 141  # 128 + SIGPIPE, as a shell reports a command that a pipe stopped
 
 
 if __name__ == "__main__":  # pragma: no cover

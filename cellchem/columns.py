@@ -237,7 +237,13 @@ def read_heading(text: str) -> HeadingReading:
             role = named[0]
         if role is not None:
             break
+    if role is None and any(_MOLAR_MASS_UNIT.search(b) for b in bracketed):
+        # a column in g/mol holds molar masses, whatever its words ("M (g/mol)")
+        role = "molar_mass"
     return HeadingReading(role)
+
+
+_MOLAR_MASS_UNIT = re.compile(r"^\s*g\s*(?:/|·|\s)\s*mol(?:-1|⁻¹)?\s*$|^\s*g\s*mol\s*(?:-1|⁻¹)\s*$")
 
 
 def heading_role(text: object) -> str | None:
@@ -247,6 +253,8 @@ def heading_role(text: object) -> str | None:
     ('cas', 'molar_mass', None)
     >>> heading_role("Summenformel"), heading_role("Name of chemical"), heading_role("Name/Formula")
     ('formula', 'name', None)
+    >>> heading_role("M (g/mol)"), heading_role("Conc. (mol/L)")
+    ('molar_mass', 'concentration')
     """
     if text is None or not str(text).strip():
         return None

@@ -34,11 +34,14 @@ from dataclasses import dataclass
 
 from .audit import (
     ERROR,
+    SCHOOL_WEIGHTS,
+    STANDARD_WEIGHTS,
     UnsavedValue,
     _blank,
     _check_line_cached,
     mass_tolerance,
     read_stated_mass,
+    school_mass,
 )
 from .errors import CellchemError
 from .formula import Formula, parse_formula
@@ -172,6 +175,7 @@ def fill_line(
     others: Sequence[object] = (),
     mass_allowance: float | None = None,
     decimal_comma: bool | None = None,
+    weights: str = STANDARD_WEIGHTS,
 ) -> FillLine:
     """The computed values of one line.
 
@@ -183,6 +187,8 @@ def fill_line(
         others: the line's cells in columns of no known role, given when the
             table's formula or name column is not known: a cell that reads as
             a formula or a name of another compound stops the line.
+        mass_allowance, decimal_comma, weights: as for ``check_line``; a
+            stated molar mass that does not match stops the line.
 
     Returns:
         A FillLine.
@@ -201,8 +207,8 @@ def fill_line(
         return FillLine(tuple(verdict if c.key == "verdict" else None for c in columns), False, verdict)
     seen = tuple(str(o).strip() for o in others if isinstance(o, str) and o.strip())
     return _LINES.get(
-        (columns, typed(*args), seen, mass_allowance, decimal_comma),
-        lambda: _fill_line(columns, *args, seen, mass_allowance, decimal_comma),
+        (columns, typed(*args), seen, mass_allowance, decimal_comma, weights),
+        lambda: _fill_line(columns, *args, seen, mass_allowance, decimal_comma, weights),
     )
 
 
@@ -260,7 +266,11 @@ def _contradicting(compound: Formula, others: Sequence[str]) -> str:
 
 
 def _mass_contradicts(
-    compound: Formula, cell: object, allowance: float | None, decimal_comma: bool | None
+    compound: Formula,
+    cell: object,
+    allowance: float | None,
+    decimal_comma: bool | None,
+    weights: str = STANDARD_WEIGHTS,
 ) -> str:
     """A reason when the stated molar mass does not match the compound; ''
     when it matches, is empty or is not a molar mass."""
@@ -271,7 +281,10 @@ def _mass_contradicts(
         mass = float(molar_mass(compound))
     except Exception:  # not a molar mass (the audit says so), or none to compare
         return ""
-    if abs(stated[0] - mass) <= mass_tolerance(stated[0], stated[1], allowance):
+    tolerance = mass_tolerance(stated[0], stated[1], allowance)
+    if abs(stated[0] - mass) <= tolerance:
+        return ""
+    if weights == SCHOOL_WEIGHTS and abs(stated[0] - school_mass(compound)) <= tolerance:
         return ""
     return (
         f"not filled: the stated molar mass {stated[0]:g} g/mol does not match {compound.text()},"
@@ -295,9 +308,19 @@ def _name_fixes_water(text: str, compound: Formula) -> bool:
 
 
 def _fill_line(
-    columns, formula, name, molar_mass_cell, cas, concentration, unit, others, mass_allowance, decimal_comma
+    columns,
+    formula,
+    name,
+    molar_mass_cell,
+    cas,
+    concentration,
+    unit,
+    others,
+    mass_allowance,
+    decimal_comma,
+    weights=STANDARD_WEIGHTS,
 ):
-    result = _check_line_cached(formula, molar_mass_cell, name, cas, mass_allowance, decimal_comma)
+    result = _check_line_cached(formula, molar_mass_cell, name, cas, mass_allowance, decimal_comma, weights)
     verdict = _verdict(result.findings)
     compound: Formula | None = None
     # every error but a molar-mass one stops the line (a stated molar mass is weighed below): the
@@ -319,7 +342,7 @@ def _fill_line(
         if not reason:
             named = None if _blank(name) or _blank(formula) else _as_named(str(name))
             if named is None or not _same(named, compound):
-                reason = _mass_contradicts(compound, molar_mass_cell, mass_allowance, decimal_comma)
+                reason = _mass_contradicts(compound, molar_mass_cell, mass_allowance, decimal_comma, weights)
     if compound is None or reason:
         verdict = reason + (f" ({verdict})" if reason and verdict != "ok" else "") if reason else verdict
         values = tuple(verdict if c.key == "verdict" else None for c in columns)

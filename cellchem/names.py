@@ -192,6 +192,15 @@ def _hydrate_names() -> dict[Number | None, str]:
     return names
 
 
+def hydrate_word(water: Number) -> str:
+    """The word for a count of water of crystallisation (data/hydrate_words.csv).
+
+    >>> hydrate_word(2), hydrate_word(Fraction(1, 2)), hydrate_word(13)
+    ('dihydrate', 'hemihydrate', '13-hydrate')
+    """
+    return _hydrate_names().get(water) or f"{_fmt_number(water)}-hydrate"
+
+
 def _index(table: dict, row: dict[str, str], value, fold=str.casefold) -> None:
     """Index ``value`` under a row's name and its other names; an other name never
     displaces an entry already in the table."""
@@ -236,6 +245,30 @@ def _acids() -> tuple[dict[str, str], dict[tuple, str]]:
         key = counts_key(parse_formula(row["formula"]).counts)
         by_key.setdefault(key, row["name"])
     return by_name, by_key
+
+
+@cache
+def _ambiguous_acids() -> dict[str, tuple[str, str, tuple[str, ...]]]:
+    """Acid names the table marks "Ambiguous:" (the trade also uses them for another
+    substance): folded name -> (the name as written, the reason, the candidate formulas:
+    the acid's own, then those the note names, such as H5IO6 for periodic acid)."""
+    table: dict[str, tuple[str, str, tuple[str, ...]]] = {}
+    for row in read_table("acids.csv"):
+        note = row.get("note", "")
+        if not note.startswith("Ambiguous:"):
+            continue
+        own = parse_formula(row["formula"])
+        candidates = [own.text()]
+        for token in re.findall(r"(?<![\w.])[A-Z][A-Za-z0-9]*\d[A-Za-z0-9]*(?![\w.])", note):
+            try:
+                other = parse_formula(token)
+            except CellchemError:
+                continue
+            if len(other.counts) > 1 and other.text() not in candidates:
+                candidates.append(other.text())
+        why = note[len("Ambiguous:") :].strip().split(";")[0].rstrip(".")
+        table[_fold(row["name"])] = (row["name"], why, tuple(candidates))
+    return table
 
 
 @cache
@@ -1097,6 +1130,24 @@ def read_name(name: str) -> NameReading:
     return _read_name(name)
 
 
+def name_core(name: str) -> tuple[str, Number | str | None]:
+    """The words of a name left when its grade, form, purity, strength and hydrate
+    words are set aside (folded as ``read_name`` folds them), and the water the name
+    states: a count, None for an unknown count, '' when it says none.
+
+    >>> name_core("Ethanol, absolute, AR 99.8%")
+    ('ethanol', '')
+    >>> name_core("Citric acid monohydrate, ACS reagent")
+    ('citric acid', 1)
+    """
+    plain_text, _ = _bracketed_formulas(name.strip())
+    folded, _ = _bracketed_names(_fold(plain_text))
+    folded, _ = _stock(folded)
+    rest, _, water = _set_aside(folded)
+    rest = re.sub(r"\s*,(?:\s*,)*\s*", ", ", " ".join(rest.split()))
+    return rest.strip(" ,;"), water
+
+
 @lru_cache(maxsize=32768)
 def _read_name(name: str) -> NameReading:
     text = name.strip()
@@ -1450,6 +1501,16 @@ def _read_addition(text: str, rest: str, qualifiers: list[Qualifier], forms: lis
     )
 
 
+def as_ions(formula: str | Formula) -> Formula:
+    """A formula in Hill order or as a table writes it, rewritten cations first as the
+    rules write it where it reads as one salt; unchanged otherwise.
+
+    >>> as_ions("CHNaO3").text(), as_ions("C2H6O").text()
+    ('NaHCO3', 'C2H6O')
+    """
+    return _canonical(as_formula(formula))
+
+
 def _canonical(f: Formula) -> Formula:
     """A table formula written as the rules write it (alum KAl(SO4)2·12H2O as
     AlK(SO4)2·12H2O), so a trivial name and its systematic name agree."""
@@ -1484,6 +1545,17 @@ def _kind_of(f: Formula) -> str:
 def _whole_lookup(
     text: str, plain: str, water: Number | str | None, qualifiers: list[Qualifier], forms: list[str]
 ) -> NameReading | None:
+    ambiguous = _ambiguous_acids().get(plain)
+    if ambiguous is not None:
+        _, why, candidates = ambiguous
+        wet = [parse_formula(c).with_water(water).text() if water not in ("", 0) else c for c in candidates]
+        raise NameError_(
+            f"'{text}' is used for more than one substance ({why}): it may be {' or '.join(wet)}; write"
+            " the formula, or a name that fixes it",
+            text=text,
+            choices=tuple(wet),
+            reason="may-be",
+        )
     for table, kind, label in (
         (_trivial(), "trivial", "trivial name"),
         (_named()[0], "", "established name"),
@@ -1932,6 +2004,9 @@ def _build(
     elif opens and not counted:
         others = [p for p in pieces if p is not opens[0]]
         candidates = _candidates(opens[0].symbol, others)
+        if water not in ("", 0):
+            # the name's hydrate word holds for every candidate ('nickel sulfate 6-hydrate')
+            candidates = [(n, parse_formula(fx).with_water(water).text()) for n, fx in candidates]  # type: ignore[arg-type]
         name = element(opens[0].symbol).name
         listing = "; ".join(f"{n} {rest_name(others)}: {fx}" for n, fx in candidates)
         raise NameError_(

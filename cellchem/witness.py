@@ -16,12 +16,12 @@ synonym of a substance record, and a record the table marks uncertain (it is lef
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from .errors import CellchemError
 from .formula import Formula, parse_formula
 from .mass import molar_mass
-from .names import name_from_formula, same_substance
+from .names import as_ions, hydrate_word, name_from_formula, same_substance
 from .substances import Substance, by_composition, composition_key
 
 NAME, FORMULA, MASS, CAS = "name", "formula", "molar_mass", "cas"
@@ -48,6 +48,7 @@ class Dispute:
     role: str
     message: str
     suggestion: str = ""
+    firm: bool = True  # False: the cell outvoted rests on a witness that grounds no error (a synonym)
 
 
 def _agree(a: Formula, b: Formula) -> bool:
@@ -109,7 +110,8 @@ def weigh(
         out = []
         for cluster in ranked[1:]:
             for w in cluster:
-                out.append(_against(w, best, stated, mass_matches))
+                d = _against(w, best, stated, mass_matches)
+                out.append(d if w.grounds else replace(d, firm=False))
         if stated is not None and not _matches(best[0].formula, mass_matches):
             out.append(_mass_dispute(best, stated))
         return out
@@ -144,6 +146,8 @@ def _best_formula(cluster: list[Witness]) -> Formula:
 
 def _against(w: Witness, best: list[Witness], stated: float | None, mass_matches) -> Dispute:
     truth = _best_formula(best)
+    if w.role == FORMULA:
+        truth = _as_written(w.formula, truth)
     agreeing = _agreeing(best, stated, mass_matches)
     said = f"{agreeing} agree on {_text(truth)}; {w.said} says {_text(w.formula)}"
     if w.role == FORMULA:
@@ -159,28 +163,50 @@ def _against(w: Witness, best: list[Witness], stated: float | None, mass_matches
     assert record is not None
     named = [x.record.cas for x in best if x.record is not None and x.role == NAME]
     right = named or [s.cas for s in by_composition(truth) if s.certain]
-    relation = _relation(w.formula, truth)
+    relation, shown = _relation(w.formula, truth)
     message = (
-        f"CAS RN {record.cas} belongs to {record.name} ({record.formula}){relation}; {agreeing} agree on"
-        f" {_text(truth)}"
+        f"CAS RN {record.cas} belongs to {record.name} ({shown or _record_text(w.formula)}){relation};"
+        f" {agreeing}"
+        f" agree on {_text(truth)}"
     )
     if len(right) == 1:
         message += f", whose CAS RN is {right[0]}"
     return Dispute(CAS, message, right[0] if len(right) == 1 else "")
 
 
-def _relation(cas_formula: Formula, truth: Formula) -> str:
-    """' (the anhydrous salt)', ' (the 6-hydrate)' when the two differ only in water."""
+def _record_text(f: Formula) -> str:
+    """A record's Hill formula as the rules write it where it reads as one salt (CHNaO3 is
+    NaHCO3); as the record writes it otherwise."""
     try:
-        a, b = cas_formula, truth
-        for n in range(0, 25):
-            if composition_key(b.anhydrous().with_water(n) if n else b.anhydrous()) == composition_key(a):
-                if n == 0:
-                    return ", the anhydrous salt"
-                return f", the {n}-hydrate"
+        return as_ions(f).text()
     except CellchemError:
-        return ""
-    return ""
+        return f.text()
+
+
+def _as_written(cell: Formula, truth: Formula) -> Formula:
+    """The truth in the formula cell's own writing when the two differ only in water
+    (C6H8O7 with one water is C6H8O7·H2O, not the acid name's H3C6H5O7·H2O)."""
+    try:
+        water = truth.water
+        if water is None or composition_key(cell.anhydrous()) != composition_key(truth.anhydrous()):
+            return truth
+        return cell.with_water(water)
+    except CellchemError:
+        return truth
+
+
+def _relation(cas_formula: Formula, truth: Formula) -> tuple[str, str]:
+    """(', the anhydrous salt' or ', the hexahydrate', the record's formula written as the
+    line's with that water) when the two differ only in water; ('', '') otherwise."""
+    try:
+        dry = truth.anhydrous()
+        for n in range(0, 25):
+            form = dry.with_water(n) if n else dry
+            if composition_key(form) == composition_key(cas_formula):
+                return (", the anhydrous salt" if n == 0 else f", the {hydrate_word(n)}"), _text(form)
+    except CellchemError:
+        return "", ""
+    return "", ""
 
 
 def _mass_dispute(cluster: list[Witness], stated: float) -> Dispute:

@@ -27,8 +27,12 @@ LINES = [
     ("iron chloride", "FeBr3", "", [("name", ERROR)]),
     # a different compound altogether
     ("sodium chloride", "KCl", "74.55", [("name", ERROR)]),
-    # an organic name is not checked, said in a note
-    ("glucose", "C6H12O6", "180.16", [("name", NOTE)]),
+    # an organic name the substance table matches exactly is checked there, and agrees
+    # (glucose C6H12O6, 180.16 g/mol, CRC Handbook, from memory)
+    ("glucose", "C6H12O6", "180.16", []),
+    # an organic name the table does not hold is not checked, said in a note (bromothymol blue
+    # sodium salt, 646.36 g/mol, supplier labels, from memory)
+    ("bromothymol blue sodium salt indicator", "C27H27Br2NaO5S", "646.36", [("name", NOTE)]),
     # a formula that does not balance, and its molar mass then disagrees with NaCl's
     # the name and the stated molar mass agree (NaCl 58.44 g/mol, CRC, from memory): the formula is
     # blamed, and the molar mass is not

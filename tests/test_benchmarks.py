@@ -37,3 +37,14 @@ def test_run_script_prints_its_tables(tmp_path):
     out = proc.stdout
     for words in ("cellchem audit", "cellchem fill", "python-calamine read", "first sight", "layer overhead"):
         assert words in out
+
+
+def test_substance_lookup_script_prints_its_table():
+    proc = subprocess.run(
+        [sys.executable, str(ROOT / "benchmarks" / "substance_lookup.py")],
+        capture_output=True,
+        text=True,
+        timeout=300,
+    )
+    assert proc.returncode == 0, proc.stderr
+    assert "first lookup in a process" in proc.stdout and "whole table" in proc.stdout

@@ -2,15 +2,19 @@
 
 Source: the PubChem-derived identifier tables shipped in the PyPI package `chemicals`
 (Chemical Engineering Design Library, Caleb Bell and contributors; MIT licence; the data are
-from PubChem, NCBI, public domain): "chemical identifiers pubchem small.tsv", "... large.tsv"
-and "Inorganic db.tsv" (CAS RN, formula in Hill order, molecular weight, IUPAC and common
-names, synonyms). Only those columns are kept.
+from PubChem, NCBI, public domain): "chemical identifiers pubchem small.tsv", "... large.tsv",
+"... example user db.tsv" and "Inorganic db.tsv" (CAS RN, formula in Hill order, molecular
+weight, IUPAC and common names, synonyms). Only those columns are kept; the name shown is the
+common name unless that is a registry code or PubChem's ion list, then another name cellchem
+reads as the record's formula.
 
 Every record is checked against itself before it can ground an audit finding:
 - its formula must read (cellchem's formula reader) and its molar mass, computed with the
   CIAAW weights cellchem ships, must match the record's molecular weight;
 - a hydrate word in its names (pentahydrate, hydrate (1:5)) must match the water the
-  formula holds (a salt read from its counts with the water counted in);
+  formula holds (a salt read from its counts with the water counted in); for a compound that
+  does not read as a salt, the record of the name without the hydrate word must be the
+  formula less that water (lactose monohydrate against lactose);
 - where cellchem reads the record's common name, the reading must be the record's formula;
 - an inorganic formula must balance, and an organic one must not have an odd number of
   electrons (a radical under a common name).
@@ -49,6 +53,9 @@ FILES = (
     "chemical identifiers pubchem small.tsv",
     "Inorganic db.tsv",
     "chemical identifiers pubchem large.tsv",
+    # PubChem records of the same form shipped as the package's example of a user database; they
+    # hold common substances the other tables lack (hexane, octane, methane, aspirin)
+    "chemical identifiers example user db.tsv",
 )
 SYNONYMS_KEPT = {"chemical identifiers pubchem small.tsv": 20, "Inorganic db.tsv": 20}
 SYNONYMS_DEFAULT = 1
@@ -94,8 +101,12 @@ def _water_of(f) -> float | None:
     return None if water is None else float(water)
 
 
-def check(formula_text: str, weight: str, common: str, names: list[str]) -> tuple[str, int | None, str]:
-    """(formula as cellchem writes it, water or None, doubt ('' when certain)) of one record."""
+def check(
+    formula_text: str, weight: str, common: str, names: list[str], base_formulas: dict[str, str] | None = None
+) -> tuple[str, int | None, str]:
+    """(formula as cellchem writes it, water or None, doubt ('' when certain)) of one record.
+    ``base_formulas`` maps folded names to formulas, for the hydrate check of records that
+    do not read as salts (lactose monohydrate against lactose)."""
     try:
         f = parse_formula(formula_text)
     except CellchemError as exc:
@@ -118,9 +129,29 @@ def check(formula_text: str, weight: str, common: str, names: list[str]) -> tupl
     water = _water_of(f)
     for n in names[:3]:
         for word, count in _HYDRATE_WORD.items():
-            if re.search(rf"\b{word}\b", n):
-                if water is None or water != count:
+            if not re.search(rf"\b{word}\b", n):
+                continue
+            if water is not None:
+                if water != count:
                     return f.text(), water, f"name '{n}' says {word}; the formula holds {water or 0} H2O"
+                continue
+            # not a salt: the anhydrous compound's record, found by the name without the
+            # hydrate word, must be this formula less the water
+            base = fold_name(re.sub(rf"\s*\b{word}\b", "", n)).strip(" ,")
+            dry = (base_formulas or {}).get(base)
+            if dry is None:
+                return f.text(), None, f"name '{n}' says {word}; no record of '{base}' confirms the water"
+            try:
+                expected = parse_formula(dry).anhydrous().with_water(count)
+            except CellchemError:
+                return f.text(), None, f"name '{n}' says {word}; the record of '{base}' does not read"
+            if counts_key(expected.counts) != counts_key(f.counts):
+                return (
+                    f.text(),
+                    None,
+                    f"name '{n}' says {word}; '{base}' is {dry}, so the formula lacks the water",
+                )
+            water = count
     try:
         reading = read_name(common)
     except CellchemError:
@@ -150,10 +181,15 @@ def build(path: Path | str) -> dict[str, int]:
         """
     )
     rows = []
-    name_rows: set[tuple[str, str, str]] = set()
-    for file, cas, formula, weight, iupac, common, synonyms in _records():
+    name_rows: set[tuple[str, int, int]] = set()
+    records = list(_records())
+    base_formulas: dict[str, str] = {}
+    for _, _, formula, _, _, common, _ in records:
+        if common and not _CAS.match(common):
+            base_formulas.setdefault(fold_name(common), formula)
+    for file, cas, formula, weight, iupac, common, synonyms in records:
         names = [n for n in (common, iupac, *synonyms) if n]
-        written, water, doubt = check(formula, weight, common, names)
+        written, water, doubt = check(formula, weight, common, names, base_formulas)
         counts["records"] += 1
         if doubt:
             counts["uncertain"] += 1
@@ -165,9 +201,7 @@ def build(path: Path | str) -> dict[str, int]:
                 cas,
                 written,
                 float(weight) if _is_number(weight) else 0.0,
-                next(
-                    (n for n in (common, *synonyms, iupac) if n and not _CAS.match(n) and ";" not in n), iupac
-                ),
+                _display_name(common, synonyms, iupac, written),
                 water,
                 doubt,
                 _composition(written),
@@ -216,11 +250,48 @@ def _composition(formula_text: str) -> str:
         return ""
 
 
-def _display_name(common: str, synonyms: list[str], iupac: str) -> str:
-    """The record's name to show: its common name, else a synonym, never a CAS RN or
-    PubChem's ion list ('calcium;dichloride;dihydrate') when another name exists."""
-    names = (common, *synonyms, iupac)
-    return next((n for n in names if n and not _CAS.match(n) and ";" not in n), iupac)
+# a registry code given as a name (UNII 'm4i0d6vv5m', a vendor's 'st50308019'): letters and digits, no space
+_WHOLE_CODE = re.compile(r"(?=[a-z]*\d)(?=\d*[a-z])[a-z0-9]{6,}")
+
+
+def _shown(name: str) -> bool:
+    return bool(name) and not _CAS.match(name) and ";" not in name and not _WHOLE_CODE.fullmatch(name)
+
+
+def _display_name(common: str, synonyms: list[str], iupac: str, formula: str) -> str:
+    """The name to show, Stock numbers in capitals (the source writes 'copper(ii) sulfate').
+
+    >>> _display_name("copper(ii) sulfate pentahydrate", [], "", "CuH10O9S")
+    'copper(II) sulfate pentahydrate'
+    """
+    name = _chosen_name(common, synonyms, iupac, formula)
+    return re.sub(r"\(([ivx]+(?:,[ivx]+)*)\)", lambda m: m.group(0).upper(), name)
+
+
+def _chosen_name(common: str, synonyms: list[str], iupac: str, formula: str) -> str:
+    """The record's name to show: its common name; when that is a CAS RN, a registry code or
+    PubChem's ion list ('calcium;dichloride;dihydrate'), the first other name that cellchem reads
+    as the record's formula (the ion list read as words is one), else the first other name.
+
+    >>> ions = "calcium;dichloride;dihydrate"
+    >>> _chosen_name("m4i0d6vv5m", ["calcium chlorideultra pure"], ions, "CaCl2H4O2")
+    'calcium dichloride dihydrate'
+    """
+    if _shown(common):
+        return common
+    others = [n for n in synonyms if _shown(n)] + ([iupac.replace(";", " ")] if iupac else [])
+    try:
+        key = counts_key(parse_formula(formula).counts)
+    except CellchemError:
+        key = None
+    for name in others:
+        try:
+            read = parse_formula(read_name(name).formula)
+        except CellchemError:
+            continue
+        if key is not None and not read.has_unknown_count and counts_key(read.counts) == key:
+            return name
+    return others[0] if others else common or iupac
 
 
 def _is_number(text: str) -> bool:

@@ -282,6 +282,11 @@ SEEDED = [
     ("Sodium carbonate, hydrated", "Na2CO3·xH2O", None, "", "unknown water count"),
     ("Iron chloride", "FeBr3", 295.56, "", "open charge that fits no reading"),
     ("Sodium chloride", "KCl", 74.55, "7447-40-7", "a different cation"),
+    ("Potassium chloride", "KCl", 74.55, "7647-14-5", "CAS of another substance"),
+    ("Calcium chloride dihydrate", "CaCl2·2H2O", 147.01, "10043-52-4", "CAS of the anhydrous salt"),
+    ("Sodium nitrate", "NaNO3", 84.99, "7613-99-4", "CAS digits swapped"),
+    ("Ethanol, absolute", "C2H6O2", 46.07, "64-17-5", "organic formula against name, CAS and molar mass"),
+    ("Acetone", "C3H6O", 58.08, "67-56-1", "organic CAS of another substance"),
 ]
 
 
@@ -330,7 +335,7 @@ def _inventory_rows() -> list[list[object]]:
             number += 1
     # the seeded lines, spread through the list at fixed places
     for i, (name, formula, mass, cas, _why) in enumerate(SEEDED):
-        at = 7 + i * 13
+        at = 7 + i * 11
         rows.insert(
             at,
             [

@@ -10,7 +10,7 @@ from dataclasses import dataclass, field
 from itertools import chain, islice
 from pathlib import Path
 
-from ..audit import WARNING, Summary, iter_audit
+from ..audit import STANDARD_WEIGHTS, WARNING, Summary, iter_audit
 from ..columns import (
     HEADER_SEARCH_ROWS,
     NO_ROLES,
@@ -92,6 +92,7 @@ class Options:
     delimiter: str | None = None
     mass_allowance: float | None = None
     column_options: ColumnOptions | None = None  # --column [SHEET:]... and --header-row [SHEET:]N
+    weights: str = STANDARD_WEIGHTS
 
     def layout_options(self) -> ColumnOptions:
         if self.column_options is not None:
@@ -223,6 +224,7 @@ def _audit_table(
         row_numbers=row_numbers,
         mass_allowance=options.mass_allowance,
         decimal_comma=decimal_comma,
+        weights=options.weights,
     ):
         report.summary.add(result)
         for f in result.findings:

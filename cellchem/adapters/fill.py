@@ -24,7 +24,7 @@ from collections import Counter
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ..audit import NO_SAVED_VALUE, NOT_RECALCULATED, _blank
+from ..audit import NO_SAVED_VALUE, NOT_RECALCULATED, STANDARD_WEIGHTS, _blank
 from ..columns import (
     HEADER_SEARCH_ROWS,
     NO_TABLE,
@@ -80,6 +80,7 @@ class FillOptions:
     overwrite: bool = False
     mass_allowance: float | None = None
     column_options: ColumnOptions | None = None  # --column [SHEET:]... and --header-row [SHEET:]N
+    weights: str = STANDARD_WEIGHTS
 
     def layout_options(self) -> ColumnOptions:
         if self.column_options is not None:
@@ -379,6 +380,7 @@ def _fill_from_roles(
         others=tuple(others or ()),
         mass_allowance=options.mass_allowance,
         decimal_comma=decimal_comma,
+        weights=options.weights,
     )
     if line.filled:
         report.filled += 1

@@ -211,6 +211,51 @@ SUPPLIERS = [
 INITIALS = ["SM", "RT", "JKB", "AP", "LW", "HD", "NO'C", "EV"]
 DEPTS = ["Chemistry", "Biology", "Applied Science", "Environmental", "Foundation"]
 
+
+def formula_typos(
+    formula: str, right: str, sub_kind: str, element_case: dict[str, str] | None = None
+) -> list[tuple[str, str]]:
+    """(typo, what was changed) for a formula: element symbols in the wrong case, a count
+    changed or a subscript dropped (``sub_kind`` 'case', 'count' or 'drop'); only typos that
+    are not the right formula's composition. ``element_case`` maps symbols to their
+    miscased forms (default: ELEMENT_CASE)."""
+    salt, water = split_water(formula)
+    cands: list[tuple[str, str]] = []
+    if sub_kind == "case":
+        for el, up in (ELEMENT_CASE if element_case is None else element_case).items():
+            for mt in re.finditer(el + r"(?![a-z])", salt):
+                cands.append(
+                    (
+                        salt[: mt.start()] + up + salt[mt.end() :] + water,
+                        f"element case: {el} written {up}",
+                    )
+                )
+    elif sub_kind == "count":
+        for mt in re.finditer(r"(?<=[A-Za-z)])\d+", salt):
+            n = int(mt.group(0))
+            for new in sorted({n + 1, n - 1} - {0, 1, n}):
+                cands.append(
+                    (
+                        salt[: mt.start()] + str(new) + salt[mt.end() :] + water,
+                        f"count {n} changed to {new}",
+                    )
+                )
+        for mt in re.finditer(r"(?<=[a-z)])(?=[A-Z(]|$)", salt):
+            cands.append((salt[: mt.start()] + "2" + salt[mt.start() :] + water, "count 1 changed to 2"))
+    elif sub_kind == "drop":
+        for mt in re.finditer(r"(?<=[A-Za-z)])\d+", salt):
+            cands.append((salt[: mt.start()] + salt[mt.end() :] + water, f"subscript {mt.group(0)} dropped"))
+    good = []
+    for text, why in cands:
+        try:
+            if composition(text) == composition(right):
+                continue
+        except Exception:
+            pass  # a typo that is no formula at all is a fine typo
+        good.append((text, why))
+    return good
+
+
 # ---------------------------------------------------------------------------------------------------------
 # Lines and sheets
 # ---------------------------------------------------------------------------------------------------------
@@ -1013,42 +1058,7 @@ class Planter:
         sub = ln.sub
         assert sub and ln.formula
         f = ln.formula
-        salt, water = split_water(f)
-        cands: list[tuple[str, str]] = []
-        if sub_kind == "case":
-            for el, up in ELEMENT_CASE.items():
-                for mt in re.finditer(el + r"(?![a-z])", salt):
-                    cands.append(
-                        (
-                            salt[: mt.start()] + up + salt[mt.end() :] + water,
-                            f"element case: {el} written {up}",
-                        )
-                    )
-        elif sub_kind == "count":
-            for mt in re.finditer(r"(?<=[A-Za-z)])\d+", salt):
-                n = int(mt.group(0))
-                for new in sorted({n + 1, n - 1} - {0, 1, n}):
-                    cands.append(
-                        (
-                            salt[: mt.start()] + str(new) + salt[mt.end() :] + water,
-                            f"count {n} changed to {new}",
-                        )
-                    )
-            for mt in re.finditer(r"(?<=[a-z)])(?=[A-Z(]|$)", salt):
-                cands.append((salt[: mt.start()] + "2" + salt[mt.start() :] + water, "count 1 changed to 2"))
-        elif sub_kind == "drop":
-            for mt in re.finditer(r"(?<=[A-Za-z)])\d+", salt):
-                cands.append(
-                    (salt[: mt.start()] + salt[mt.end() :] + water, f"subscript {mt.group(0)} dropped")
-                )
-        good = []
-        for text, why in cands:
-            try:
-                if composition(text) == composition(sub.formula):
-                    continue
-            except Exception:
-                pass  # a typo that is no formula at all is a fine typo
-            good.append((text, why))
+        good = formula_typos(f, sub.formula, sub_kind)
         if not good:
             return False
         text, why = self.rng.choice(good)
