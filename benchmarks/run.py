@@ -127,7 +127,7 @@ def layer_table() -> list[str]:
     import gc
 
     from cellchem import molar_mass
-    from cellchem.adapters.sheet_functions import cc_molarmass
+    from cellchem.adapters.sheets.functions import cc_molarmass
 
     grid = [["NaCl"], ["CuSO4·5H2O"], ["KCl"], ["Al2(SO4)3"]] * 2500
     molar_mass("NaCl")

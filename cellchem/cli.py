@@ -266,9 +266,9 @@ def _column_options(args: argparse.Namespace):
 
 
 def _cmd_audit(args: argparse.Namespace) -> int:
-    from .adapters.audit_files import AuditRun, Options, audit_file
     from .adapters.files import UnusableFile
-    from .adapters.precheck import require_defusedxml
+    from .adapters.files.audit import AuditRun, Options, audit_file
+    from .adapters.files.precheck import require_defusedxml
     from .errors import CellchemError
 
     try:
@@ -326,7 +326,7 @@ def _cmd_audit(args: argparse.Namespace) -> int:
         out.write(f"... {total - printed} more findings (--show all prints them; --report writes them)\n\n")
     lines = _summary_lines(run, args.min_severity, _unused_sheet_options(run, column_options))
     out.write("\n".join(lines) + "\n")
-    from .adapters import reports
+    from .adapters.files import reports
 
     ordered = report_order(run, kept)
     try:
@@ -352,8 +352,8 @@ def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> No
     """Write an annotated copy of each usable file: the verdict column, and for
     a workbook a sheet of its findings."""
     from .adapters.files import UnusableFile
-    from .adapters.fill import FillOptions, derived_output, fill_file
-    from .adapters.package import FINDINGS_HEADERS
+    from .adapters.files.fill import FillOptions, derived_output, fill_file
+    from .adapters.files.ooxml import FINDINGS_HEADERS
     from .fill import read_columns
 
     usable = [f for f in run.files if not f.error and not f.skipped]
@@ -392,8 +392,8 @@ def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> No
 
 def _cmd_fill(args: argparse.Namespace) -> int:
     from .adapters.files import UnusableFile
-    from .adapters.fill import FillOptions, derived_output, fill_file
-    from .adapters.precheck import require_defusedxml
+    from .adapters.files.fill import FillOptions, derived_output, fill_file
+    from .adapters.files.precheck import require_defusedxml
     from .errors import CellchemError
     from .fill import read_columns
 
@@ -666,7 +666,7 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def _cmd_calc_extension(args: argparse.Namespace) -> int:
-    from .adapters.calc.build import BuildError, build
+    from .adapters.sheets.calc.build import BuildError, build
 
     try:
         path = build(args.output, office=args.office, sdk=args.sdk)

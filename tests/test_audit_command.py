@@ -743,7 +743,7 @@ LONG = " ".join(f"word{i:03d}" for i in range(70))
 
 
 def _long_records():
-    from cellchem.adapters.reports import FindingRecord
+    from cellchem.adapters.files.reports import FindingRecord
 
     return [
         FindingRecord("stock.xlsx", "Stock", r, "D", "name", "error", f"{LONG} row{r}end", "x " * 40)
@@ -752,7 +752,7 @@ def _long_records():
 
 
 def test_findings_workbook_rows_fit_their_text_and_print_on_a4_landscape(tmp_path):
-    from cellchem.adapters.reports import write_workbook
+    from cellchem.adapters.files.reports import write_workbook
 
     out = tmp_path / "f.xlsx"
     write_workbook(out, _long_records(), [("lines checked: 28", "")])
@@ -796,7 +796,7 @@ def _pdf_text(tmp_path: Path, book: Path) -> list[str]:
 
 @pytest.mark.skipif(_soffice() is None, reason="LibreOffice is not installed (CI installs it)")
 def test_findings_workbook_printed_by_libreoffice_shows_every_word(tmp_path):
-    from cellchem.adapters.reports import write_workbook
+    from cellchem.adapters.files.reports import write_workbook
 
     out = tmp_path / "f.xlsx"
     write_workbook(out, _long_records(), [("lines checked: 28", "")])

@@ -25,10 +25,10 @@ from pathlib import Path
 
 import pytest
 
-from cellchem.adapters import sheet_functions as sf
-from cellchem.adapters.calc import build as oxt
-from cellchem.adapters.calc.component import method_name, parameter_name
-from cellchem.adapters.cells import to_calc
+from cellchem.adapters.sheets import functions as sf
+from cellchem.adapters.sheets.calc import build as oxt
+from cellchem.adapters.sheets.calc.component import method_name, parameter_name
+from cellchem.adapters.sheets.cells import to_calc
 
 ROOT = Path(__file__).resolve().parent.parent
 DRIVER = ROOT / "tests" / "calc" / "driver.py"
@@ -181,9 +181,7 @@ def test_extension_bundles_what_it_needs_and_nothing_compiled(calc):
     for module in ("cellchem/__init__.py", "pyparsing/__init__.py", "pint/__init__.py"):
         assert f"pythonpath/{module}" in names
     assert not [n for n in names if n.endswith((".so", ".pyd", ".pyc"))]
-    assert not [
-        n for n in names if "/adapters/" in n and n.rsplit("/", 1)[-1] in ("workbook.py", "package.py")
-    ]
+    assert not [n for n in names if "/adapters/" in n and n.rsplit("/", 1)[-1] in ("workbook.py", "ooxml.py")]
     assert any(n.startswith("licenses/pyparsing-") for n in names)
 
 
@@ -193,7 +191,7 @@ def test_bundle_runs_on_its_own(calc, tmp_path):
         z.extractall(tmp_path)
     code = (
         "import sys; sys.path.insert(0, sys.argv[1]);"
-        "from cellchem.adapters import sheet_functions as sf;"
+        "from cellchem.adapters.sheets import functions as sf;"
         "import cellchem, pint; assert cellchem.__file__.startswith(sys.argv[1]), cellchem.__file__;"
         "print(sf.cc_molarmass('CuSO4.5H2O'), sf.cc_grams('NaCl', '0.1 M', '1 L'))"
     )

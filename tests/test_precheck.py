@@ -23,9 +23,9 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from cellchem.adapters import precheck as precheck_module
 from cellchem.adapters.files import UnusableFile
-from cellchem.adapters.precheck import precheck, require_defusedxml, sheet_states
+from cellchem.adapters.files import precheck as precheck_module
+from cellchem.adapters.files.precheck import precheck, require_defusedxml, sheet_states
 
 HAVE_WORKBOOK_EXTRA = all(importlib.util.find_spec(name) for name in ("openpyxl", "defusedxml"))
 needs_workbook = pytest.mark.skipif(

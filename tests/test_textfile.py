@@ -1,4 +1,4 @@
-"""Reading supplier text exports (cellchem.adapters.textfile).
+"""Reading supplier text exports (cellchem.adapters.files.text).
 
 Every file is built here from bytes. The expected cells are typed out by hand,
 never produced by the csv module the reader uses, except in the round-trip
@@ -20,9 +20,9 @@ import pytest
 from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
-from cellchem.adapters import textfile
 from cellchem.adapters.files import UnusableFile
-from cellchem.adapters.textfile import TextTable, parse_number, read_text_table
+from cellchem.adapters.files import text as textfile
+from cellchem.adapters.files.text import TextTable, parse_number, read_text_table
 from cellchem.errors import CellchemError
 
 RESAVE = 're-save it as "CSV UTF-8" or pass --encoding'
@@ -729,7 +729,7 @@ def test_delimiter_of_a_rectangular_table_is_found(
     ],
 )
 def test_ungrouped_number(text, decimal_comma, expected):
-    from cellchem.adapters.textfile import ungrouped_number
+    from cellchem.adapters.files.text import ungrouped_number
 
     assert ungrouped_number(text, decimal_comma) == expected
 
@@ -741,7 +741,7 @@ def test_ungrouped_number(text, decimal_comma, expected):
     space=st.booleans(),
 )
 def test_grouped_numbers_read_as_their_plain_value(whole, cents, decimal_comma, space):
-    from cellchem.adapters.textfile import parse_number, ungrouped_number
+    from cellchem.adapters.files.text import parse_number, ungrouped_number
 
     group = " " if space else ("." if decimal_comma else ",")
     mark = "," if decimal_comma else "."

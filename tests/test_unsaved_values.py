@@ -1,5 +1,5 @@
 """Formula cells whose value cannot be read, found in a sheet part's bytes
-(cellchem.adapters.workbook.unsaved_formula_cells). The XML is written here as
+(cellchem.adapters.files.workbook.unsaved_formula_cells). The XML is written here as
 the OOXML standard (ECMA-376 Part 1, 18.3.1.4 c, 18.3.1.40 f, 18.3.1.96 v;
 from memory) lays a cell out; which cells lack a value is known from how each
 was written, not from cellchem."""
@@ -11,7 +11,7 @@ from itertools import pairwise
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from cellchem.adapters.workbook import unsaved_formula_cells
+from cellchem.adapters.files.workbook import unsaved_formula_cells
 from cellchem.columns import column_letter
 
 # (kind, prefix): a plain value, a formula with a saved value, a formula with an empty <v>, a formula

@@ -22,9 +22,9 @@ from cellchem import (
     mass_fraction,
     molar_mass,
 )
-from cellchem.adapters import sheet_functions as sf
-from cellchem.adapters import xlwings_udfs
-from cellchem.adapters.cells import MARK, full_message
+from cellchem.adapters.sheets import excel as xlwings_udfs
+from cellchem.adapters.sheets import functions as sf
+from cellchem.adapters.sheets.cells import MARK, full_message
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -575,7 +575,7 @@ def _odf_formula(formula: str) -> str:
     """An Excel-style formula (=CC_X(B5,"a")) in OpenFormula (of:=ORG...CCX([.B5];"a"))."""
     import re
 
-    from cellchem.adapters.calc.component import IMPLEMENTATION, method_name
+    from cellchem.adapters.sheets.calc.component import IMPLEMENTATION, method_name
 
     out = []
     for token in re.findall(r'"[^"]*"|CC_[A-Z]+|[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?|.', formula.lstrip("=")):

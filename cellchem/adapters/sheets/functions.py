@@ -15,7 +15,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from fractions import Fraction
 
-from .. import (
+from ... import (
     activity_coefficient,
     cas_is_valid,
     charge_balance,
@@ -33,9 +33,9 @@ from .. import (
     oxidation_state,
     salt_formula,
 )
-from ..audit import ERROR, NOTE, WARNING, check_line
-from ..errors import CellchemError
-from ..substances import edition, substance
+from ...audit import ERROR, NOTE, WARNING, check_line
+from ...errors import CellchemError
+from ...substances import edition, substance
 from .cells import (
     ZERO_IS_AMBIGUOUS,
     ZERO_IS_EMPTY,

@@ -149,7 +149,7 @@ def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_r
     from openpyxl.worksheet.properties import PageSetupProperties
     from openpyxl.worksheet.table import Table, TableStyleInfo
 
-    from .package import POINTS_PER_LINE, text_lines
+    from .ooxml import POINTS_PER_LINE, text_lines
 
     wrap = Alignment(wrap_text=True, vertical="top")
     top = Alignment(vertical="top")

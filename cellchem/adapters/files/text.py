@@ -23,8 +23,8 @@ from collections import Counter
 from collections.abc import Iterator
 from dataclasses import dataclass
 
-from ..errors import CellchemError
-from .files import MAX_ROWS, MAX_TEXT_BYTES, UnusableFile
+from ...errors import CellchemError
+from . import MAX_ROWS, MAX_TEXT_BYTES, UnusableFile
 
 _CANDIDATES = (",", ";", "\t")
 _DELIMITER_ARGUMENTS = {

@@ -10,8 +10,8 @@ from dataclasses import dataclass, field
 from itertools import chain, islice
 from pathlib import Path
 
-from ..audit import STANDARD_WEIGHTS, WARNING, Summary, iter_audit
-from ..columns import (
+from ...audit import STANDARD_WEIGHTS, WARNING, Summary, iter_audit
+from ...columns import (
     HEADER_SEARCH_ROWS,
     NO_ROLES,
     NO_TABLE,
@@ -22,8 +22,8 @@ from ..columns import (
     column_letter,
     find_layout,
 )
-from ..errors import CellchemError
-from .files import MAX_COLUMNS, UnusableFile, one_line
+from ...errors import CellchemError
+from . import MAX_COLUMNS, UnusableFile, one_line
 from .reports import FindingRecord
 
 COLUMNS_CHECK = "columns"  # the check of a table's columns (a table with no name or formula column)
@@ -278,7 +278,7 @@ def audit_file(path: str | Path, options: Options, run: AuditRun) -> FileReport:
 def _mass_cells(decimal_comma: bool):
     """A filter for a text file's rows: a molar mass written with its digits
     grouped (``1.235,86``) is given to the checks without the grouping."""
-    from .textfile import ungrouped_number
+    from .text import ungrouped_number
 
     def apply(layout: Layout, rows: Iterator[Sequence[object]]) -> Iterator[Sequence[object]]:
         index = layout.roles.get("molar_mass")
@@ -296,7 +296,7 @@ def _mass_cells(decimal_comma: bool):
 
 
 def _audit_text(path: Path, report: FileReport, options: Options, run: AuditRun) -> None:
-    from .textfile import read_text_table
+    from .text import read_text_table
 
     table = read_text_table(path, encoding=options.encoding, delimiter=options.delimiter)
     names = {",": "commas", ";": "semicolons", "\t": "tabs"}

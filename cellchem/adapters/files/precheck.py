@@ -34,7 +34,7 @@ from collections.abc import Iterator
 from contextlib import contextmanager
 from typing import IO, Any, NamedTuple
 
-from .files import (
+from . import (
     ABSURD_CELLS_PER_BYTE,
     ABSURD_MIN_CELLS,
     MAX_MEMBERS,

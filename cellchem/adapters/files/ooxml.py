@@ -35,8 +35,8 @@ from typing import IO
 
 from lxml import etree
 
-from ..columns import column_index, column_letter
-from .files import UnusableFile
+from ...columns import column_index, column_letter
+from . import UnusableFile
 
 MAIN_NS = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
 REL_NS = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"

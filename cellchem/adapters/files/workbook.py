@@ -25,9 +25,9 @@ from dataclasses import dataclass
 from itertools import chain
 from pathlib import Path
 
-from ..audit import NO_SAVED_VALUE, NOT_RECALCULATED, UnsavedValue
-from ..columns import column_index
-from .files import MAX_COLUMNS, MAX_ROWS, UnusableFile, one_line
+from ...audit import NO_SAVED_VALUE, NOT_RECALCULATED, UnsavedValue
+from ...columns import column_index
+from . import MAX_COLUMNS, MAX_ROWS, UnusableFile, one_line
 from .precheck import require_defusedxml, sheet_states
 
 _FORMULA_START = re.compile(rb"<(?:[A-Za-z0-9_]+:)?f[\s>/]")
@@ -168,7 +168,7 @@ class WorkbookReader:
 
     def _scan(self, archive, path: str) -> dict[int, dict[int, UnsavedValue]]:
         if self._recalculate is None:
-            from .package import package_map
+            from .ooxml import package_map
 
             try:
                 self._recalculate = package_map(archive).recalculate

@@ -24,8 +24,8 @@ from collections import Counter
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from ..audit import NO_SAVED_VALUE, NOT_RECALCULATED, STANDARD_WEIGHTS, _blank
-from ..columns import (
+from ...audit import NO_SAVED_VALUE, NOT_RECALCULATED, STANDARD_WEIGHTS, _blank
+from ...columns import (
     HEADER_SEARCH_ROWS,
     NO_TABLE,
     NOT_MATCHED,
@@ -34,11 +34,11 @@ from ..columns import (
     LayoutError,
     column_letter,
 )
-from ..errors import CellchemError
-from ..fill import MASS, NUMBER, FillColumn, fill_line
-from .audit_files import lock_file_note, sheet_columns
-from .files import UnusableFile, one_line
-from .package import (
+from ...errors import CellchemError
+from ...fill import MASS, NUMBER, FillColumn, fill_line
+from . import UnusableFile, one_line
+from .audit import lock_file_note, sheet_columns
+from .ooxml import (
     MAIN_NS,
     MAX_SHEET_COLUMNS,
     NewCell,
@@ -149,7 +149,7 @@ def fill_file(
 
 
 def _layout(head, columns, header_index: int | None) -> Layout:
-    from .audit_files import layout_of
+    from .audit import layout_of
 
     return layout_of(head, columns, header_index)
 
@@ -157,7 +157,7 @@ def _layout(head, columns, header_index: int | None) -> Layout:
 def _choose_sheet(
     src: Path, options: FillOptions, zin, pmap, strings, report: FillReport
 ) -> tuple[object, Layout]:
-    from .package import first_rows
+    from .ooxml import first_rows
 
     sheets = pmap.sheets
     wanted = (
@@ -331,7 +331,7 @@ def _fill_workbook(
             changed = {sheet.part}
             additions: dict[str, bytes] = {}
             if extra_sheet is not None:
-                from .package import added_sheet
+                from .ooxml import added_sheet
 
                 parts, additions, title = added_sheet(zin, pmap, extra_sheet[0], extra_sheet[1], styles)
                 for name, data in parts.items():
@@ -455,7 +455,7 @@ def _csv_number(value: float, kind: str, decimal_comma: bool) -> str:
 
 
 def _fill_text(src: Path, dst: Path, options: FillOptions) -> FillReport:
-    from .textfile import read_text_table, ungrouped_number
+    from .text import read_text_table, ungrouped_number
 
     report = FillReport(str(src))
     table = read_text_table(src)

@@ -24,7 +24,7 @@ import math
 from collections import OrderedDict
 from collections.abc import Callable, Sequence
 
-from ..errors import CellchemError
+from ...errors import CellchemError
 
 MARK = "#cellchem: "
 SHORT = 80  # characters of the message shown in the cell, after the mark

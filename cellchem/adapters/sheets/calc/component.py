@@ -47,7 +47,8 @@ def _load_bundle(here: str) -> tuple[object, object, str | None]:
         sys.path.remove(bundle)
     sys.path.insert(0, bundle)
     try:
-        from cellchem.adapters import cells, sheet_functions
+        from cellchem.adapters.sheets import cells
+        from cellchem.adapters.sheets import functions as sheet_functions
     except Exception as exc:  # a broken or shadowed bundle: say so in the cell
         return None, None, f"cellchem could not be loaded from {bundle}: {exc}"
     import pint

@@ -1,6 +1,6 @@
 """The cellchem worksheet functions for Excel, through xlwings.
 
-Point xlwings at this module (``UDF Modules: cellchem.adapters.xlwings_udfs``
+Point xlwings at this module (``UDF Modules: cellchem.adapters.sheets.excel``
 in the xlwings add-in's settings, or ``UDF_MODULES`` in ``xlwings.conf``) and
 import the functions; each ``CC_*`` function then works in a cell like a
 built-in one. Every argument arrives as a 2-D list (``ndim=2``), error cells
@@ -12,7 +12,7 @@ the decorators do nothing and the functions can still be called.
 
 from __future__ import annotations
 
-from . import sheet_functions as sf
+from . import functions as sf
 
 try:  # the 'excel' extra
     import xlwings as xw

@@ -1,0 +1,2 @@
+"""Adapters for spreadsheet functions: cell conversions, the one function table,
+and the Excel and LibreOffice Calc layers generated from it."""
