@@ -14,7 +14,7 @@ import openpyxl
 import pytest
 
 from cellchem import CellchemError, molar_mass
-from cellchem.adapters.files.fill import _raw_records
+from cellchem.adapters.files.fill_text import _raw_records
 from cellchem.cli import main
 from cellchem.fill import DEFAULT_COLUMNS, fill_line, read_columns
 
