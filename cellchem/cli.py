@@ -14,6 +14,7 @@ from pathlib import Path
 
 from . import __version__
 from .audit import ERROR, NOTE, STANDARD_WEIGHTS, WARNING, WEIGHT_PRESETS, check_line
+from .errors import UsageError
 
 EXIT_CLEAN = 0
 EXIT_FINDINGS = 1
@@ -40,10 +41,6 @@ _MASS_HEADERS = (
     "fw",
     "formula weight",
 )
-
-
-class UsageError(Exception):
-    """A file or the command line cannot be used (exit code 2)."""
 
 
 def _find_column(headers: list[str], wanted: Sequence[str], override: str | None) -> int | None:

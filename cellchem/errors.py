@@ -1,4 +1,5 @@
-"""The one error family for bad chemistry input.
+"""The one error family: bad chemistry input, and at the command line files
+that cannot be used, outputs that cannot be written and bad options.
 
 Every message is one line, because it may land in a spreadsheet cell. It quotes
 the input, gives a position counted from 1 where one applies, and says what was
@@ -17,6 +18,8 @@ class CellchemError(ValueError):
         choices: readings that would resolve the problem (for example the
             correctly cased formulas a wrong-case input allows), possibly empty.
     """
+
+    exit_code = 2  # the command line's exit status when this error ends a command
 
     def __init__(
         self,
@@ -67,3 +70,18 @@ class UnknownIonError(CellchemError):
 class ChemistryError(CellchemError):
     """A formula that reads correctly but cannot give the asked-for quantity,
     such as a molar mass with an unknown water count."""
+
+
+class UnusableFile(CellchemError):
+    """A file cellchem cannot or will not read: the message is one line that
+    says why and what would make it usable (exit code 2 at the command line)."""
+
+
+class OutputError(CellchemError):
+    """An output that cannot be written (a read-only folder, a full disk, a
+    folder that is a file): the message names the output, and the input is
+    never blamed (exit code 2)."""
+
+
+class UsageError(CellchemError):
+    """A command line that cannot be carried out as given (exit code 2)."""

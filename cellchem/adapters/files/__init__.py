@@ -4,6 +4,10 @@ not make (supplier files are untrusted)."""
 
 from __future__ import annotations
 
+from ...errors import OutputError, UnusableFile
+
+__all__ = ["OutputError", "UnusableFile", "one_line"]
+
 # Limits (documented in README, "Untrusted files")
 MAX_PART_BYTES = 1 << 30  # declared uncompressed size of one part of a workbook package: 1 GiB
 MAX_PACKAGE_BYTES = 2 << 30  # declared uncompressed size of all parts together: 2 GiB
@@ -15,11 +19,6 @@ MAX_COLUMNS = 256  # columns read from one sheet; columns beyond are not read (t
 # ABSURD_MIN_CELLS in all, is refused as absurd for the file's size
 ABSURD_CELLS_PER_BYTE = 100
 ABSURD_MIN_CELLS = 10_000_000
-
-
-class UnusableFile(Exception):
-    """A file cellchem cannot or will not read: the message is one line that
-    says why and what would make it usable (exit code 2 at the command line)."""
 
 
 def one_line(exc: object, limit: int = 300) -> str:
