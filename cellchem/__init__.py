@@ -15,11 +15,12 @@ from .charge import ChargeBalance, charge_balance, net_charge, oxidation_state
 from .conductivity import conductivity
 from .elements import Element, element
 from .errors import CellchemError
-from .formula import Formula, parse_formula
+from .formula import Formula
 from .ionbalance import IonBalance, ion_balance
-from .ions import Ion, find_ion, salt_formula
+from .ions import Ion
 from .mass import composition, mass_fraction, molar_mass
 from .names import NameReading, formula_from_name, name_from_formula, read_name
+from .reading import find_ion, parse_formula, salt_formula
 from .recipes import (
     Dilution,
     Recipe,

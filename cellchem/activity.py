@@ -86,18 +86,14 @@ from __future__ import annotations
 import math
 import warnings
 from dataclasses import dataclass
-from functools import lru_cache
 
-from .errors import CellchemError, ChemistryError
-from .ions import Ion, find_ion, ion_values
-from .solutions import RangeWarning, Value, _pairs, ion_concentrations, ions_of, read_solutes
-
-# CODATA 2018 (the first three exact since the 2019 SI)
-ELEMENTARY_CHARGE = 1.602176634e-19  # C
-BOLTZMANN = 1.380649e-23  # J/K
-AVOGADRO = 6.02214076e23  # 1/mol
-VACUUM_PERMITTIVITY = 8.8541878128e-12  # F/m
-LN10 = math.log(10.0)
+from .errors import CellchemError, ChemistryError, RangeWarning
+from .ions import Ion, ion_values
+from .reading import find_ion
+from .solutions import Value, _pairs, ion_concentrations, ions_of, read_solutes
+from .water import check_temperature, debye_huckel_constants, strength_basis
+from .water import water_density as water_density  # the water's properties, as they were found here
+from .water import water_permittivity as water_permittivity
 
 
 @dataclass(frozen=True)
@@ -190,87 +186,6 @@ def trusted_limit(model: str, charge_product: int) -> float:
             f"charge_product: expected a whole number |z+ z-| of 1 or more, read {charge_product!r}"
         )
     return MODEL_LIMITS[m.name].get(charge_product, (0.0, ""))[0]
-
-
-def _check_temperature(temperature_c: float) -> float:
-    if isinstance(temperature_c, bool) or not isinstance(temperature_c, int | float):
-        raise CellchemError(f"temperature_c: expected a number of degrees Celsius, read {temperature_c!r}")
-    t = float(temperature_c)
-    if not (0.0 <= t <= 100.0):
-        raise CellchemError(
-            f"temperature_c: {temperature_c!r} is outside 0-100 C, the range of the permittivity correlation"
-            " used (Malmberg and Maryott 1956)"
-        )
-    return t
-
-
-def water_permittivity(temperature_c: float = 25.0) -> float:
-    """Relative permittivity of water at 0-100 C (Malmberg and Maryott 1956):
-    87.740 - 0.40008 t + 9.398e-4 t^2 - 1.410e-6 t^3.
-
-    >>> round(water_permittivity(25), 2)
-    78.3
-    """
-    t = _check_temperature(temperature_c)
-    return 87.740 - 0.40008 * t + 9.398e-4 * t**2 - 1.410e-6 * t**3
-
-
-def water_density(temperature_c: float = 25.0) -> float:
-    """Density of air-free water at 1 atm in kg/m3, 0-100 C (Kell 1975).
-
-    >>> round(water_density(25), 2)
-    997.04
-    """
-    t = _check_temperature(temperature_c)
-    num = (
-        999.83952
-        + 16.945176 * t
-        - 7.9870401e-3 * t**2
-        - 46.170461e-6 * t**3
-        + 105.56302e-9 * t**4
-        - 280.54253e-12 * t**5
-    )
-    return num / (1 + 16.879850e-3 * t)
-
-
-def _basis(unit: str) -> str:
-    if not isinstance(unit, str):
-        raise CellchemError(f"unit: expected 'mol/L' or 'mol/kg' for an ionic strength, read {unit!r}")
-    if unit in ("mol/L", "M"):
-        return "mol/L"
-    if unit in ("mol/kg", "molal"):
-        return "mol/kg"
-    raise CellchemError(f"unit: expected 'mol/L' or 'mol/kg' for an ionic strength, read {unit!r}")
-
-
-def debye_huckel_constants(temperature_c: float = 25.0, unit: str = "mol/L") -> tuple[float, float]:
-    """The Debye-Huckel constants (A, B) for log10 gamma.
-
-    Args:
-        temperature_c: 0-100 C.
-        unit: ``'mol/L'`` (ionic strength per litre of solution, taken as
-            per litre of water: dilute solutions) or ``'mol/kg'`` (molal).
-
-    Returns:
-        A in (unit)^-1/2 and B in 1/angstrom (unit)^-1/2.
-
-    >>> a, b = debye_huckel_constants(25, "mol/kg")
-    >>> round(a, 3), round(b, 3)
-    (0.511, 0.329)
-    """
-    return _constants(_check_temperature(temperature_c), _basis(unit))
-
-
-@lru_cache(maxsize=512)
-def _constants(t: float, basis: str) -> tuple[float, float]:
-    kelvin = t + 273.15
-    eps = water_permittivity(t)
-    # amount of ions per m3 for I = 1 of the basis
-    per_m3 = 1000.0 if basis == "mol/L" else water_density(t)
-    e2 = ELEMENTARY_CHARGE**2
-    kappa = math.sqrt(2 * e2 * AVOGADRO * per_m3 / (VACUUM_PERMITTIVITY * eps * BOLTZMANN * kelvin))  # 1/m
-    a = e2 / (8 * math.pi * VACUUM_PERMITTIVITY * eps * BOLTZMANN * kelvin * LN10) * kappa
-    return a, kappa * 1e-10
 
 
 def _sizes() -> dict[tuple, float]:
@@ -370,7 +285,7 @@ def _strength_of(ionic_strength, unit: str | None) -> tuple[float, str, tuple[in
     """The ionic strength, its basis and, for an ``ionic_strength`` Value, the
     highest charges of its ions (None for a plain number)."""
     if isinstance(ionic_strength, Value) and ionic_strength.unit in ("mol/L", "mol/kg"):
-        if unit is not None and _basis(unit) != ionic_strength.unit:
+        if unit is not None and strength_basis(unit) != ionic_strength.unit:
             raise CellchemError(
                 f"unit {unit!r} does not match the ionic strength given in {ionic_strength.unit}"
             )
@@ -381,7 +296,7 @@ def _strength_of(ionic_strength, unit: str | None) -> tuple[float, str, tuple[in
     value = float(ionic_strength)
     if not math.isfinite(value) or value < 0:
         raise CellchemError(f"ionic_strength: expected a number of 0 or more, read {ionic_strength!r}")
-    return value, _basis("mol/L" if unit is None else unit), None
+    return value, strength_basis("mol/L" if unit is None else unit), None
 
 
 def _counter(counter_charge) -> int | None:
@@ -461,7 +376,7 @@ def activity_coefficient(
     i = _ion(ion)
     strength, basis, solution = _strength_of(ionic_strength, unit)
     counter = _counter(counter_charge)
-    a, b = debye_huckel_constants(_check_temperature(temperature_c), basis)
+    a, b = debye_huckel_constants(check_temperature(temperature_c), basis)
     assumed = ""
     if solution is not None:
         cation, anion = solution
@@ -531,7 +446,7 @@ def mean_activity_coefficient(
     """
     m = _model(model)
     _check_outside(outside_range)
-    t = _check_temperature(temperature_c)
+    t = check_temperature(temperature_c)
     d = ions_of(formula)
     if not d.fully_dissociated or not d.ions:
         raise ChemistryError(

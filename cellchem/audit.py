@@ -19,7 +19,7 @@ from .charge import ORGANIC, RADICAL, charge_balance
 from .columns import Layout, find_layout
 from .elements import all_elements, element
 from .errors import CellchemError
-from .formula import Formula, case_readings, parse_formula
+from .formula import Formula, case_readings
 from .ions import catalog, counts_key
 from .mass import molar_mass
 from .memo import Memo, typed
@@ -32,6 +32,7 @@ from .names import (
     read_name,
     same_substance,
 )
+from .reading import parse_formula
 from .substances import by_composition, composition_key, name_match
 from .substances import substance as substance_record
 from .tables import read_table
@@ -1279,7 +1280,31 @@ def audit_row(
     """Audit one data row of a table whose layout is known.
 
     A cell given as an UnsavedValue (a spreadsheet formula with no saved
-    value) gets a warning of its own, and the line is checked without it."""
+    value) gets a warning of its own, and the line is checked without it.
+    Rows the same in every cell and read with the same columns are audited
+    once (stock lists repeat their lines)."""
+    key = (typed(*cells), tuple(layout.roles.items()), mass_allowance, decimal_comma, weights)
+    done = _ROWS.get(
+        key,
+        lambda: _audit_row(
+            cells, layout, 0, mass_allowance=mass_allowance, decimal_comma=decimal_comma, weights=weights
+        ),
+    )
+    return RowResult(row, done.status, done.reason, done.findings, done.columns, done.result)
+
+
+_ROWS: Memo[RowResult] = Memo(50_000)
+
+
+def _audit_row(
+    cells: Sequence[object],
+    layout: Layout,
+    row: int,
+    *,
+    mass_allowance: float | None = None,
+    decimal_comma: bool | None = None,
+    weights: str = STANDARD_WEIGHTS,
+) -> RowResult:
     roles = layout.roles
     values = {role: _cell(cells, roles.get(role)) for role in ("name", "formula", "molar_mass", "cas")}
     if all(_blank(v) for v in cells):

@@ -16,6 +16,10 @@ molecular: their oxidation states follow the usual rules (F -1; metals of one
 common charge; H +1 with non-metals, -1 with metals; O -2; the most
 electronegative remaining element takes its lowest common state; the last
 element takes what balances the charge).
+
+The splitting into runs and the rules for oxidation states are the charge
+solver's (``cellchem.solver``); this module weighs its readings, explains them
+and answers with them.
 """
 
 from __future__ import annotations
@@ -26,9 +30,22 @@ from functools import cache, lru_cache
 from itertools import product
 
 from .elements import element
-from .errors import CellchemError, ChemistryError
-from .formula import Atom, Formula, Group, Item, Number, Part, as_formula, render_items
+from .errors import ChemistryError
+from .formula import Atom, Formula, Group, Item, Number, Part, render_items
 from .ions import Ion, catalog, counts_key, ions_in
+from .reading import as_formula, canonical, parse_formula
+from .solver import (
+    Option,
+    Share,
+    allows_oxo_ions,
+    bars_carbide,
+    best_reading,
+    covered,
+    item_counts,
+    readings_by_charge,
+    rule_states,
+)
+from .tables import read_table
 
 ELEMENT = "element"
 IONIC = "ionic"
@@ -45,23 +62,6 @@ def _word(n: Number) -> str:
     if isinstance(n, int) and 0 <= n < len(_NUMBER_WORDS):
         return _NUMBER_WORDS[n]
     return str(n)
-
-
-@dataclass(frozen=True)
-class Share:
-    """One species of a charge assignment.
-
-    Attributes:
-        label: how it is written (``'Fe3+'``, ``'SO4 2-'``, ``'H2O'``).
-        charge: charge of one of them.
-        count: how many per formula unit.
-        ion: the catalog ion, or None for water and neutral parts.
-    """
-
-    label: str
-    charge: int
-    count: Number
-    ion: Ion | None = None
 
 
 @dataclass(frozen=True)
@@ -93,180 +93,12 @@ class ChargeBalance:
         return self.balanced
 
 
-# ---------------------------------------------------------------------------
-# Reading a part as ions
-# ---------------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class _Option:
-    start: int
-    end: int
-    charge: int
-    score: tuple[int, int, int]  # homonuclear ions, mixed valence, number of ions
-    shares: tuple[Share, ...]
-    inner: tuple[_Option, ...] = ()  # for a bracketed group read from its contents
-
-
-def _counts(items: tuple[Item, ...]) -> dict[str, Number]:
-    total: dict[str, Number] = {}
-    for item in items:
-        for s, n in item.counts().items():
-            total[s] = total.get(s, 0) + n
-    return total
-
-
-def _add(a: tuple[int, int, int], b: tuple[int, int, int]) -> tuple[int, int, int]:
-    return (a[0] + b[0], a[1] + b[1], a[2] + b[2])
-
-
-def _compositions(n: int, k: int):
-    """All ways to write n as k non-negative parts."""
-    if k == 1:
-        yield (n,)
-        return
-    for first in range(n + 1):
-        for rest in _compositions(n - first, k - 1):
-            yield (first,) + rest
-
-
-def _run_options(
-    items: tuple[Item, ...],
-    start: int,
-    end: int,
-    inside: bool,
-    mixed: bool,
-    oxo: bool = True,
-    carbon: bool = False,
-) -> list[_Option]:
-    run = items[start:end]
-    counts = _counts(run)
-    options: list[_Option] = []
-    for ion, k in ions_in(counts):
-        if not oxo and ion.is_homonuclear and ion.text in ("O2", "O3"):
-            continue
-        if carbon and ion.charge < 0 and ion.text in _CARBIDE_LIKE:
-            continue
-        options.append(
-            _Option(
-                start,
-                end,
-                ion.charge * k,
-                (1 if ion.is_homonuclear and ion.charge < 0 else 0, 0, k),
-                (Share(ion.label, ion.charge, k, ion),),
-            )
-        )
-    if mixed and len(counts) == 1:
-        ((symbol, n),) = counts.items()
-        mono = [ion for ion, k in ions_in({symbol: 1})]
-        if isinstance(n, int) and n >= 2 and len(mono) >= 2 and n <= 24:
-            for combo in _compositions(n, len(mono)):
-                if sum(1 for c in combo if c) < 2:
-                    continue
-                shares = tuple(Share(ion.label, ion.charge, c, ion) for ion, c in zip(mono, combo) if c)
-                total = sum(ion.charge * c for ion, c in zip(mono, combo))
-                options.append(_Option(start, end, total, (0, 1, n), shares))
-    if len(run) == 1 and isinstance(run[0], Group) and not options:
-        group = run[0]
-        for charge, best in _solutions(group.items, True, mixed, True, True, carbon).items():
-            score, path = best
-            label = render_items((Group(group.items, 1, group.bracket),))
-            shares = (Share(_label(label, charge), charge, group.count, None),)
-            scaled = (score[0] * group.count, score[1] * group.count, group.count)
-            options.append(_Option(start, end, charge * group.count, scaled, shares, path))
-        if inside and not options:
-            states = rule_states(counts, 0)
-            if states is not None:
-                label = render_items(group.items)
-                options.append(_Option(start, end, 0, (0, 0, 0), (Share(label, 0, group.count, None),)))
-    return options
-
-
-def _label(text: str, charge: int) -> str:
-    if not charge:
-        return text
-    magnitude = "" if abs(charge) == 1 else str(abs(charge))
-    return text + magnitude + ("+" if charge > 0 else "-")
-
-
-Solution = tuple[tuple[int, int, int], tuple[_Option, ...]]
-
-
-@lru_cache(maxsize=16384)
-def _solutions(
-    items: tuple[Item, ...],
-    inside: bool,
-    mixed: bool,
-    whole: bool = True,
-    oxo: bool = True,
-    carbon: bool = False,
-) -> dict[int, Solution]:
-    """For every reachable total charge, the best reading of ``items``.
-
-    ``whole=False`` leaves out the readings of all the items as one ion, to
-    look inside a catalog complex ion at its metal and ligands."""
-    n = len(items)
-    dp: list[dict[int, Solution]] = [{} for _ in range(n + 1)]
-    dp[0][0] = ((0, 0, 0), ())
-    for i in range(n):
-        if not dp[i]:
-            continue
-        for j in range(i + 1, n + 1):
-            if not whole and i == 0 and j == n:
-                continue
-            options = _run_options(items, i, j, inside, mixed, oxo, carbon)
-            for charge, (score, path) in dp[i].items():
-                for opt in options:
-                    c = charge + opt.charge
-                    s = _add(score, opt.score)
-                    current = dp[j].get(c)
-                    if current is None or s < current[0]:
-                        dp[j][c] = (s, path + (opt,))
-    return dp[n]
-
-
-def _reach(items: tuple[Item, ...], carbon: bool = False) -> int:
-    """How many leading items some reading covers (for messages)."""
-    n = len(items)
-    reach = [False] * (n + 1)
-    reach[0] = True
-    best = 0
-    for i in range(n):
-        if not reach[i]:
-            continue
-        for j in range(i + 1, n + 1):
-            if _run_options(items, i, j, False, False, True, carbon):
-                reach[j] = True
-                best = max(best, j)
-    return best
-
-
-def _solve(items: tuple[Item, ...], target: int) -> Solution | None:
-    counts = _counts(items)
-    oxo = _allows_oxo_ions(counts)
-    carbon = _bars_carbide(counts)
-    found = _solutions(items, False, False, True, oxo, carbon).get(target)
-    if found is None:
-        found = _solutions(items, False, True, True, oxo, carbon).get(target)
-    return found
-
-
-# Carbide C4-, acetylide C2 2- and nitride N3- stand only in binary compounds
-# (CaC2, Al4C3, Li3N, Mg3N2): a carbon compound of three or more elements is
-# never split into them (C2H3NaO2 is sodium acetate, not an acetylide): common practice.
-_CARBIDE_LIKE = frozenset({"C", "C2", "N"})
-
-
-def _bars_carbide(counts: dict[str, Number]) -> bool:
-    return "C" in counts and len(counts) > 2
-
-
 # Anions that do not stand with H+ alone: NH3 is not N3- with 3 H+, H2O2 not
 # peroxide with 2 H+, CH3OH not methanolate with H+ (common practice).
 _NOT_ACID_ANIONS = frozenset("O N C P Si B Ge As Sb H".split())
 
 
-def _acceptable_without_metal(path: tuple[_Option, ...]) -> bool:
+def _acceptable_without_metal(path: tuple[Option, ...]) -> bool:
     """For a formula with no element that forms a catalog cation: the ionic
     reading stands unless its only cations are H+ and its anion is one that
     does not make an acid with H+."""
@@ -294,7 +126,7 @@ def _forms_cation(symbol: str) -> bool:
     return element(symbol).is_metal or any(ion.charge > 0 for ion, _ in ions_in({symbol: 1}))
 
 
-def _hydride_plausible(path: tuple[_Option, ...]) -> bool:
+def _hydride_plausible(path: tuple[Option, ...]) -> bool:
     """Hydride H- stands beside metal cations only: AsH3 and GeH4 are
     molecular (arsane, germane), not As3+ or Ge4+ with hydride ions (common practice)."""
     shares = [share for opt in path for share in opt.shares if share.ion is not None]
@@ -311,17 +143,6 @@ def _has_metal(counts: dict[str, Number]) -> bool:
     return any(_forms_cation(s) for s in counts)
 
 
-# Peroxide, superoxide and ozonide stand with the s-block cations (Na2O2, BaO2,
-# KO2, KO3) and zinc, cadmium and uranyl (ZnO2, CdO2, UO2O2 are sold), not with
-# the other transition metals (MnO4 is not Mn2+ and two superoxide ions):
-# common practice.
-_OXO_PARTNERS = frozenset("H Li Na K Rb Cs Fr Be Mg Ca Sr Ba Ra Zn Cd U O".split())
-
-
-def _allows_oxo_ions(counts: dict[str, Number]) -> bool:
-    return all(s in _OXO_PARTNERS for s in counts)
-
-
 # Molecular readings with an odd number of electrons are radicals; only these
 # are substances a store holds (common practice).
 _STABLE_RADICALS = frozenset({(("N", 1), ("O", 1)), (("N", 1), ("O", 2)), (("Cl", 1), ("O", 2))})
@@ -329,93 +150,6 @@ _STABLE_RADICALS = frozenset({(("N", 1), ("O", 1)), (("N", 1), ("O", 2)), (("Cl"
 
 def _electrons(counts: dict[str, Number], charge: int) -> Number:
     return sum(element(s).z * n for s, n in counts.items()) - charge
-
-
-# ---------------------------------------------------------------------------
-# Oxidation states by rule
-# ---------------------------------------------------------------------------
-
-
-def _single_charge(symbol: str) -> int | None:
-    charges = {ion.charge for ion, k in ions_in({symbol: 1}) if ion.charge > 0}
-    return charges.pop() if len(charges) == 1 else None
-
-
-def _state_range(symbol: str) -> tuple[int, int]:
-    el = element(symbol)
-    if symbol == "H":
-        return (-1, 1)
-    if symbol == "O":
-        return (-2, 2)
-    if symbol == "F":
-        return (-1, 0)
-    if symbol in ("He", "Ne", "Ar"):
-        return (0, 0)
-    if el.is_metal:
-        return (0, 8)
-    g = el.group or 0
-    if g >= 13:
-        return (g - 18, g - 10)
-    return (-4, 8)
-
-
-# H is -1 beside elements less electronegative than about 2.1 on the Pauling
-# scale (B2H6, SiH4, BH4-, AlH4-), +1 otherwise (CH4, NH3, PH3, H2S): common practice.
-_H_NEGATIVE_BELOW = 2.1
-
-
-def rule_states(counts: dict[str, Number], charge: int) -> dict[str, Fraction] | None:
-    """Oxidation states of a species by the usual rules, or None when the rules
-    give a value outside an element's range (see module doc). A state may be
-    a fraction: the mean over the atoms of that element. Where oxygen at -2
-    leaves the last element out of range, one O-O (peroxido) pair at -1 each is
-    tried for an ion (peroxydisulfate S2O8 2-: S +6), never for a neutral
-    molecule."""
-    found = _rule_states(counts, charge, 0)
-    if found is None and charge and counts.get("O", 0) >= 2:
-        found = _rule_states(counts, charge, 1)
-    return found
-
-
-def _rule_states(counts: dict[str, Number], charge: int, peroxide_pairs: int) -> dict[str, Fraction] | None:
-    unknown = [s for s in counts]
-    states: dict[str, Fraction] = {}
-    if len(unknown) == 1:
-        (s,) = unknown
-        value = Fraction(charge) / counts[s]
-        lo, hi = _state_range(s)
-        return {s: value} if lo <= value <= hi else None
-
-    def fix(symbol: str, value: Fraction | int) -> None:
-        if symbol in unknown and len(unknown) > 1:
-            states[symbol] = Fraction(value)
-            unknown.remove(symbol)
-
-    fix("F", -1)
-    for s in list(unknown):
-        if element(s).is_metal:
-            single = _single_charge(s)
-            if single is not None:
-                fix(s, single)
-    others = [element(s).electronegativity or 0.0 for s in counts if s != "H"]
-    fix("H", 1 if any(en >= _H_NEGATIVE_BELOW for en in others) else -1)
-    if "O" in unknown and len(unknown) > 1:
-        n_o = counts["O"]
-        fix("O", Fraction(-2 * n_o + 2 * peroxide_pairs, n_o) if peroxide_pairs else -2)
-    while len(unknown) > 1:
-        candidates = [s for s in unknown if not element(s).is_metal]
-        if not candidates:
-            return None
-        s = max(candidates, key=lambda x: element(x).electronegativity or 0.0)
-        lo, _ = _state_range(s)
-        fix(s, lo)
-    last = unknown[0]
-    value = (Fraction(charge) - sum(states[s] * counts[s] for s in states)) / counts[last]
-    lo, hi = _state_range(last)
-    if not lo <= value <= hi:
-        return None
-    states[last] = value
-    return {s: states[s] for s in counts}
 
 
 # ---------------------------------------------------------------------------
@@ -427,7 +161,7 @@ def _rule_states(counts: dict[str, Number], charge: int, peroxide_pairs: int) ->
 class _PartReading:
     kind: str
     shares: tuple[Share, ...]
-    path: tuple[_Option, ...] = ()
+    path: tuple[Option, ...] = ()
     states: dict[str, Fraction] | None = None
     why: str = ""
 
@@ -444,7 +178,7 @@ def _norm(x: Number) -> Number:
     return x
 
 
-def _flatten(path: tuple[_Option, ...]) -> tuple[Share, ...]:
+def _flatten(path: tuple[Option, ...]) -> tuple[Share, ...]:
     merged: dict[tuple[str, int], Share] = {}
     for opt in path:
         for share in opt.shares:
@@ -461,8 +195,8 @@ def _flatten(path: tuple[_Option, ...]) -> tuple[Share, ...]:
 def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
     if part.is_water and adduct:
         return _PartReading(IONIC, (Share("H2O", 0, 1, None),))
-    counts = _counts(part.items)
-    solution = _solve(part.items, target)
+    counts = item_counts(part.items)
+    solution = best_reading(part.items, target)
     metal = _has_metal(counts)
     if target and solution is None:
         same = [ion for ion, k in ions_in(counts) if k == 1 and ion.charge != target]
@@ -479,9 +213,7 @@ def _read_part(part: Part, target: int, adduct: bool) -> _PartReading:
     if metal and not adduct:
         by_counts = _salt_by_counts(counts_key(counts), target)
         if by_counts is not None:
-            return _PartReading(
-                IONIC, by_counts, (_Option(0, len(part.items), target, (0, 0, 0), by_counts),)
-            )
+            return _PartReading(IONIC, by_counts, (Option(0, len(part.items), target, (0, 0, 0), by_counts),))
     if adduct and len(counts) == 1 and counts_key(counts) not in _ELEMENT_MOLECULES:
         ((symbol, n),) = counts.items()
         hint = " (the digit 0 typed for the letter O?)" if symbol == "H" and "0" in str(n) else ""
@@ -688,15 +420,15 @@ def _fmt_state(value: Fraction) -> str:
 def _why_not(part: Part, target: int) -> str:
     items = part.items
     text = render_items(items)
-    counts = _counts(items)
-    reach = _reach(items, _bars_carbide(counts))
+    counts = item_counts(items)
+    reach = covered(items, bars_carbide(counts))
     if reach < len(items):
         rest = render_items(items[reach:])
         before = render_items(items[:reach])
         after = f" after '{before}'" if before else ""
         return f"no ion in the catalog matches '{rest}'{after}, so {text} cannot be split into ions"
     # closest reading: smallest |charge - target|
-    sols = {**_solutions(items, False, False, True, _allows_oxo_ions(counts), _bars_carbide(counts))}
+    sols = {**readings_by_charge(items, False, False, True, allows_oxo_ions(counts), bars_carbide(counts))}
     charge = min(sols, key=lambda c: (abs(c - target), sols[c][0]))
     shares = _flatten(sols[charge][1])
     phrases = []
@@ -852,7 +584,7 @@ def _protium_item(item: Item) -> Item:
 def _protium(formula: Formula) -> Formula:
     """The formula with D and T written as H."""
     parts = tuple(Part(tuple(_protium_item(i) for i in p.items), p.multiplier) for p in formula.parts)
-    return Formula(parts, formula.charge)
+    return canonical(Formula(parts, formula.charge))
 
 
 @cache
@@ -860,9 +592,6 @@ def _established_formulas() -> frozenset[tuple]:
     """Anhydrous counts of the compounds the name tables list (established_compounds.csv,
     named_compounds.csv, trivial_names.csv): real compounds, some of which read as no simple
     ions (CaSi2, MoSi2, Pr6O11, Fremy's salt)."""
-    from .formula import parse_formula
-    from .tables import read_table
-
     keys = set()
     for table in ("established_compounds.csv", "named_compounds.csv", "trivial_names.csv"):
         for row in read_table(table):
@@ -968,7 +697,7 @@ def net_charge(formula: str | Formula) -> int:
     )
 
 
-def _species_states(share: Share, path: tuple[_Option, ...]) -> list[tuple[str, Fraction, Number]]:
+def _species_states(share: Share, path: tuple[Option, ...]) -> list[tuple[str, Fraction, Number]]:
     """(symbol, state, atoms) for one share of an ionic reading."""
     ion = share.ion
     out: list[tuple[str, Fraction, Number]] = []
@@ -981,7 +710,7 @@ def _species_states(share: Share, path: tuple[_Option, ...]) -> list[tuple[str, 
     if ion.is_complex:
         group = ion.formula.parts[0].items[0]
         assert isinstance(group, Group)
-        sol = _solutions(group.items, True, False, False).get(ion.charge) or _solutions(
+        sol = readings_by_charge(group.items, True, False, False).get(ion.charge) or readings_by_charge(
             group.items, True, True, False
         ).get(ion.charge)
         if sol is not None:
@@ -994,7 +723,7 @@ def _species_states(share: Share, path: tuple[_Option, ...]) -> list[tuple[str, 
     return [(s, v, counts[s] * share.count) for s, v in states.items()]
 
 
-def _option_states(opt: _Option, factor: Number) -> list[tuple[str, Fraction, Number]]:
+def _option_states(opt: Option, factor: Number) -> list[tuple[str, Fraction, Number]]:
     out: list[tuple[str, Fraction, Number]] = []
     if opt.inner:
         for share in opt.shares:
@@ -1010,8 +739,6 @@ def _option_states(opt: _Option, factor: Number) -> list[tuple[str, Fraction, Nu
         if share.ion is None and share.charge == 0:
             run_counts = {}
             # neutral ligand: states by rule
-            from .formula import parse_formula
-
             lig = parse_formula(share.label)
             states = rule_states(lig.counts, 0) or {}
             for s, v in states.items():
@@ -1066,7 +793,7 @@ def oxidation_state(formula: str | Formula, symbol: str, mean: bool = False) -> 
         if reading.kind == MOLECULAR:
             assert reading.states is not None
             if el.symbol in reading.states:
-                n = _counts(part.items)[el.symbol] * factor
+                n = item_counts(part.items)[el.symbol] * factor
                 pieces.append((reading.states[el.symbol], n))
             continue
         for opt in reading.path:
@@ -1101,43 +828,11 @@ def oxidation_state(formula: str | Formula, symbol: str, mean: bool = False) -> 
     )
 
 
-# ---------------------------------------------------------------------------
-# Canonical order
-# ---------------------------------------------------------------------------
-
-
-def cations_first(part: Part, target: int = 0) -> Part:
-    """The part with its cation runs moved before the others (CH3COONa ->
-    NaCH3COO), when it reads as ions; otherwise as written. Hydrogen stays
-    where it was written, so NH3 and CH3COOH keep their order."""
-    if part.is_water or len(part.items) < 2:
-        return part
-    try:
-        solution = _solve(part.items, target)
-    except CellchemError:
-        return part
-    if solution is None:
-        return part
-    path = solution[1]
-    runs = [
-        (opt, any(s.charge > 0 and not (s.ion and s.ion.text == "H") for s in opt.shares)) for opt in path
-    ]
-    flags = [is_cation for _, is_cation in runs]
-    if flags == sorted(flags, reverse=True):
-        return part
-    ordered = [opt for opt, c in runs if c] + [opt for opt, c in runs if not c]
-    items: list[Item] = []
-    for opt in ordered:
-        items.extend(part.items[opt.start : opt.end])
-    return Part(tuple(items), part.multiplier)
-
-
 __all__ = [
     "ORGANIC",
     "Atom",
     "ChargeBalance",
     "Share",
-    "cations_first",
     "charge_balance",
     "net_charge",
     "oxidation_state",

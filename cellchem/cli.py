@@ -7,14 +7,13 @@ the command line could not be used.
 from __future__ import annotations
 
 import argparse
-import csv
 import sys
 from collections.abc import Sequence
 from pathlib import Path
 
 from . import __version__
-from .audit import ERROR, NOTE, STANDARD_WEIGHTS, WARNING, WEIGHT_PRESETS, check_line
-from .errors import UsageError
+from .audit import ERROR, NOTE, STANDARD_WEIGHTS, WARNING, WEIGHT_PRESETS
+from .errors import CellchemError, OutputError, UsageError
 
 EXIT_CLEAN = 0
 EXIT_FINDINGS = 1
@@ -43,84 +42,19 @@ _MASS_HEADERS = (
 )
 
 
-def _find_column(headers: list[str], wanted: Sequence[str], override: str | None) -> int | None:
-    cleaned = [h.strip().casefold() for h in headers]
-    if override:
-        key = override.strip().casefold()
-        if key in cleaned:
-            return cleaned.index(key)
-        raise UsageError(
-            f"no column headed '{override}'; the headers are: " + ", ".join(repr(h) for h in headers)
-        )
-    for i, h in enumerate(cleaned):
-        if h in wanted:
-            return i
-    for i, h in enumerate(cleaned):
-        if any(h.startswith(w) for w in wanted):
-            return i
-    return None
-
-
-def _read_csv(path: Path) -> list[list[str]]:
-    try:
-        raw = path.read_bytes()
-    except OSError as exc:
-        raise UsageError(f"cannot read '{path}': {exc.strerror}") from exc
-    try:
-        text = raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        raise UsageError(
-            f"'{path}' is not UTF-8 text (byte {exc.start + 1} cannot be read); save it as CSV UTF-8"
-        ) from exc
-    sample = text[:4096]
-    try:
-        dialect = csv.Sniffer().sniff(sample, delimiters=",;\t")
-    except csv.Error:
-        dialect = csv.excel
-    return [row for row in csv.reader(text.splitlines(), dialect)]
-
-
 def _cmd_check_formulas(args: argparse.Namespace) -> int:
-    rows = _read_csv(Path(args.file))
-    if not rows:
-        raise UsageError(f"'{args.file}' is empty")
-    headers = rows[0]
-    fcol = _find_column(headers, _FORMULA_HEADERS, args.formula_column)
-    if fcol is None:
-        raise UsageError(
-            f"no formula column found in '{args.file}'; the headers are: "
-            + ", ".join(repr(h) for h in headers)
-            + " (name one with --formula-column)"
-        )
-    mcol = _find_column(headers, _MASS_HEADERS, args.mass_column)
-    ncol = _find_column(headers, _NAME_HEADERS, args.name_column)
-    out = sys.stdout
-    errors = warnings = checked = 0
-    out.write(f"{'line':>5}  {'formula as written':<24} {'reads as':<24} {'g/mol':>10}  verdict\n")
-    notes = 0
-    for number, row in enumerate(rows[1:], start=2):
-        formula = row[fcol] if fcol < len(row) else ""
-        stated = row[mcol] if mcol is not None and mcol < len(row) else None
-        name = row[ncol] if ncol is not None and ncol < len(row) else None
-        if not formula.strip():
-            continue
-        checked += 1
-        result = check_line(formula, stated, name)
-        reads = result.formula.text() if result.formula else "-"
-        mass = f"{result.molar_mass:.2f}" if result.molar_mass is not None else "-"
-        verdict = (
-            "ok" if not result.findings else f"{result.findings[0].severity}: {result.findings[0].message}"
-        )
-        out.write(f"{number:>5}  {formula[:24]:<24} {reads[:24]:<24} {mass:>10}  {verdict}\n")
-        for extra in result.findings[1:]:
-            out.write(f"{'':>5}  {'':<24} {'':<24} {'':>10}  {extra.severity}: {extra.message}\n")
-        errors += sum(1 for f in result.findings if f.severity == ERROR)
-        warnings += sum(1 for f in result.findings if f.severity == WARNING)
-        notes += sum(1 for f in result.findings if f.severity == NOTE)
-    out.write(
-        f"\n{checked} lines checked in '{args.file}': {errors} errors, {warnings} warnings, {notes} notes\n"
-    )
-    return EXIT_FINDINGS if errors else EXIT_CLEAN
+    """The first command of the project, kept for scripts: ``audit`` of one
+    file with every finding shown, its column options passed on as
+    ``--column``."""
+    argv = ["audit", args.file, "--show", "all"]
+    for role, header in (
+        ("formula", args.formula_column),
+        ("name", args.name_column),
+        ("molar_mass", args.mass_column),
+    ):
+        if header:
+            argv += ["--column", f"{role}={header}"]
+    return main(argv)
 
 
 _SEVERITY_ORDER = {ERROR: 0, WARNING: 1, NOTE: 2}
@@ -337,23 +271,24 @@ def _cmd_audit(args: argparse.Namespace) -> int:
             reports.write_workbook(args.output, ordered, [(line.strip(), "") for line in lines])
             out.write(f"findings workbook written: {args.output}\n")
     except OSError as exc:
-        raise UsageError(f"could not write the report: {exc.strerror or exc}") from None
-    if args.annotate:
-        _annotate(args, run, ordered, column_options, out)
+        raise OutputError(f"could not write the report: {exc.strerror or exc}") from None
+    if args.annotate and not _annotate(args, run, ordered, column_options, out):
+        return EXIT_USAGE
     if run.unusable:
         return EXIT_USAGE
     return EXIT_FINDINGS if run.summary.severities[ERROR] else EXIT_CLEAN
 
 
-def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> None:
+def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> bool:
     """Write an annotated copy of each usable file: the verdict column, and for
-    a workbook a sheet of its findings."""
-    from .adapters.files import UnusableFile
+    a workbook a sheet of its findings. False when a copy could not be
+    written (the command then exits 2)."""
     from .adapters.files.fill import FillOptions, derived_output, fill_file
     from .adapters.files.ooxml import FINDINGS_HEADERS
     from .fill import read_columns
 
     usable = [f for f in run.files if not f.error and not f.skipped]
+    written = True
     if isinstance(args.annotate, str) and len(args.files) > 1:
         raise UsageError("--annotate PATH names one output: give one input file, or --annotate alone")
     options = FillOptions(
@@ -370,7 +305,7 @@ def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> No
         if target.resolve() == src.resolve():
             raise UsageError(f"--annotate '{target}' is the input; cellchem never writes the input file")
         extra = None
-        if f.kind == "xlsx":
+        if f.kind in ("xlsx", "ods"):
             rows: list[list[object]] = [list(FINDINGS_HEADERS)]
             for r in ordered:
                 if r.file == f.path:
@@ -381,10 +316,12 @@ def _annotate(args: argparse.Namespace, run, ordered, column_options, out) -> No
             extra = ("cellchem findings", rows)
         try:
             fill_file(src, target, options, extra)
-        except UnusableFile as exc:
+        except CellchemError as exc:
             out.write(f"annotated copy not written for {f.path}: {exc}\n")
+            written = False
             continue
         out.write(f"annotated copy written: {target}\n")
+    return written
 
 
 def _cmd_fill(args: argparse.Namespace) -> int:
@@ -412,12 +349,7 @@ def _cmd_fill(args: argparse.Namespace) -> int:
     out = Path(args.output) if args.output else derived_output(src)
     if not args.output and out.exists():
         raise UsageError(f"'{out}' already exists; remove it or name another output with -o")
-    try:
-        report = fill_file(src, out, options)
-    except UnusableFile as exc:
-        raise UsageError(str(exc)) from None
-    except CellchemError as exc:
-        raise UsageError(str(exc)) from None
+    report = fill_file(src, out, options)  # a CellchemError ends the command with its exit code
     w = sys.stdout.write
     where = f" sheet '{report.sheet}'," if report.sheet else ""
     w(f"written: {report.output} (from {report.source},{where} header row {report.header_row})\n")
@@ -450,17 +382,13 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     check = sub.add_parser(
         "check-formulas",
-        help="check the formula, name and molar-mass columns of a CSV list against each other",
+        help="the same as 'audit FILE --show all' (kept for scripts that use it)",
         description=(
-            "Read the formula column of a CSV inventory list, check that each formula can be read and"
-            " balances, that the name on the line describes it, and compare its molar mass with the"
-            " stated one. The file is only read."
+            "The same as 'cellchem audit FILE --show all': the column options become --column."
             " Example: cellchem check-formulas workbooks/demo-stock-list.csv"
         ),
     )
-    check.add_argument(
-        "file", help="a CSV file (UTF-8) with a header row, e.g. workbooks/demo-stock-list.csv"
-    )
+    check.add_argument("file", help="a CSV file or workbook, e.g. workbooks/demo-stock-list.csv")
     check.add_argument(
         "--formula-column",
         metavar="HEADER",
@@ -685,8 +613,16 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_USAGE
     try:
         return args.run(args)
-    except UsageError as exc:
+    except (
+        CellchemError
+    ) as exc:  # a usage error, a file that cannot be used, an output that cannot be written
         print(f"cellchem: {exc}", file=sys.stderr)
+        return exc.exit_code
+    except MemoryError:
+        print(
+            "cellchem: this machine has not enough memory for the command; nothing was written",
+            file=sys.stderr,
+        )
         return EXIT_USAGE
     except BrokenPipeError:  # the output was piped to a program that stopped reading (head, less)
         import os

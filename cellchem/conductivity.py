@@ -37,18 +37,11 @@ from __future__ import annotations
 import math
 import warnings
 
-from .activity import (
-    AVOGADRO,
-    BOLTZMANN,
-    ELEMENTARY_CHARGE,
-    VACUUM_PERMITTIVITY,
-    RangeWarning,
-    _sizes,
-    water_permittivity,
-)
-from .errors import CellchemError, ChemistryError
+from .activity import _sizes
+from .errors import CellchemError, ChemistryError, RangeWarning
 from .ions import Ion, ion_values
 from .solutions import Value, ion_concentrations, read_solutes
+from .water import AVOGADRO, BOLTZMANN, ELEMENTARY_CHARGE, VACUUM_PERMITTIVITY, water_permittivity
 
 WATER_VISCOSITY_25 = 0.8900e-3  # Pa s, IAPWS 2008 at 25 C and 0.1 MPa (from memory)
 TRUSTED_TO = 0.02  # mol/L

@@ -24,12 +24,14 @@ contradicts, and nothing the line does not fix:
   (``audit.UnsavedValue``) is a cell whose content is not known: the line is
   not filled.
 
-The verdict column says why.
+The verdict column says why. The columns are a registry, ``COLUMNS``: each
+is one ``ColumnEntry`` (key, header, kind, and the function that computes its
+value from the line's compound), so a new fill column is one entry.
 """
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 
 from .audit import (
@@ -44,10 +46,11 @@ from .audit import (
     school_mass,
 )
 from .errors import CellchemError
-from .formula import Formula, parse_formula
+from .formula import Formula
 from .mass import mass_fraction, molar_mass
 from .memo import Memo, typed
 from .names import known_hydrates, name_from_formula, read_name, same_substance
+from .reading import parse_formula
 from .solutions import ionic_strength, ions_of
 
 TEXT = "text"
@@ -57,7 +60,9 @@ MASS = "mass"  # a number shown with two decimals
 
 @dataclass(frozen=True)
 class FillColumn:
-    """One computed column: its key, its header and how its cells are shown."""
+    """One computed column as asked for: its key, its header and how its cells
+    are shown (``kind``); ``part`` is what a column of a part names
+    (``mass-fraction=Cu``: 'Cu')."""
 
     key: str
     header: str
@@ -65,17 +70,114 @@ class FillColumn:
     part: str = ""  # for mass-fraction: the element or ion
 
 
-_FIXED = {
-    "formula": FillColumn("formula", "Formula (canonical)", TEXT),
-    "name": FillColumn("name", "Systematic name", TEXT),
-    "molar-mass": FillColumn("molar-mass", "Molar mass (g/mol)", MASS),
-    "water": FillColumn("water", "Water of crystallisation", NUMBER),
-    "cations": FillColumn("cations", "Cations", TEXT),
-    "anions": FillColumn("anions", "Anions", TEXT),
-    "ionic-strength": FillColumn("ionic-strength", "Ionic strength (mol/L)", NUMBER),
-    "verdict": FillColumn("verdict", "cellchem check", TEXT),
-}
-DEFAULT_COLUMNS = ("formula", "name", "molar-mass", "water", "cations", "anions")
+@dataclass(frozen=True)
+class LineCompound:
+    """What a column's value is computed from: the compound a line reads as, the
+    line's concentration and unit cells, and the verdict on the line."""
+
+    compound: Formula
+    concentration: object
+    unit: object
+    verdict: str
+
+
+@dataclass(frozen=True)
+class ColumnEntry:
+    """One fill column of the registry (``COLUMNS``): a new fill column is one entry.
+
+    Attributes:
+        key: the name ``--add`` asks for it by.
+        header: its heading; ``{part}`` stands for the part of a column that
+            takes one (``Mass fraction of {part} (%)``).
+        kind: TEXT, NUMBER or MASS (a number shown with two decimals).
+        value: its value for a line and a part (``''`` for a column of none);
+            None leaves the cell empty, and so does an error.
+        needs_water: False for a value the water of crystallisation leaves alone
+            (filled also from a name silent about the water).
+        default: in the columns filled when ``--add`` is not given.
+        part: for a column that takes a part, what to name (for the message
+            when it is missing); '' for a column of none.
+        check_part: for a column that takes a part, refuses a part it cannot use.
+        verdict: the column that says why a line was or was not filled (it gets
+            the verdict on every line).
+    """
+
+    key: str
+    header: str
+    kind: str
+    value: Callable[[LineCompound, str], object]
+    needs_water: bool = True
+    default: bool = False
+    part: str = ""
+    check_part: Callable[[str], object] | None = None
+    verdict: bool = False
+
+    def column(self, part: str = "") -> FillColumn:
+        """The column as asked for, with its part ('' for a column of none)."""
+        return FillColumn(self.key, self.header.format(part=part), self.kind, part)
+
+
+def _formula(line: LineCompound, part: str) -> object:
+    return line.compound.text()
+
+
+def _name(line: LineCompound, part: str) -> object:
+    return name_from_formula(line.compound)
+
+
+def _molar_mass(line: LineCompound, part: str) -> object:
+    return float(molar_mass(line.compound))
+
+
+def _water(line: LineCompound, part: str) -> object:
+    water = line.compound.water
+    return None if water is None else (int(water) if float(water).is_integer() else float(water))
+
+
+def _cations(line: LineCompound, part: str) -> object:
+    return _ions_text(line.compound, 1) or None
+
+
+def _anions(line: LineCompound, part: str) -> object:
+    return _ions_text(line.compound, -1) or None
+
+
+def _ionic_strength(line: LineCompound, part: str) -> object:
+    conc = _concentration(line.concentration, line.unit)
+    if conc is None:
+        return None
+    return float(ionic_strength([(line.compound, conc)]))
+
+
+def _the_verdict(line: LineCompound, part: str) -> object:
+    return line.verdict
+
+
+def _mass_fraction(line: LineCompound, part: str) -> object:
+    return 100.0 * mass_fraction(line.compound, part)
+
+
+# The fill columns, in the order ``--add`` lists them.
+COLUMNS: tuple[ColumnEntry, ...] = (
+    ColumnEntry("formula", "Formula (canonical)", TEXT, _formula, default=True),
+    ColumnEntry("name", "Systematic name", TEXT, _name, default=True),
+    ColumnEntry("molar-mass", "Molar mass (g/mol)", MASS, _molar_mass, default=True),
+    ColumnEntry("water", "Water of crystallisation", NUMBER, _water, default=True),
+    ColumnEntry("cations", "Cations", TEXT, _cations, needs_water=False, default=True),
+    ColumnEntry("anions", "Anions", TEXT, _anions, needs_water=False, default=True),
+    ColumnEntry("ionic-strength", "Ionic strength (mol/L)", NUMBER, _ionic_strength),
+    ColumnEntry("verdict", "cellchem check", TEXT, _the_verdict, needs_water=False, verdict=True),
+    ColumnEntry(
+        "mass-fraction",
+        "Mass fraction of {part} (%)",
+        MASS,
+        _mass_fraction,
+        part="name the element or ion, e.g. mass-fraction=Cu",
+        check_part=parse_formula,
+    ),
+)
+REGISTRY: dict[str, ColumnEntry] = {entry.key: entry for entry in COLUMNS}
+DEFAULT_COLUMNS = tuple(entry.key for entry in COLUMNS if entry.default)
 
 
 def read_columns(spec: str | None) -> tuple[FillColumn, ...]:
@@ -86,7 +188,7 @@ def read_columns(spec: str | None) -> tuple[FillColumn, ...]:
     ['Molar mass (g/mol)', 'Mass fraction of Cu (%)']
     """
     if spec is None or not spec.strip():
-        return tuple(_FIXED[k] for k in DEFAULT_COLUMNS)
+        return tuple(REGISTRY[k].column() for k in DEFAULT_COLUMNS)
     out: list[FillColumn] = []
     for raw in spec.split(","):
         item = raw.strip()
@@ -94,21 +196,25 @@ def read_columns(spec: str | None) -> tuple[FillColumn, ...]:
             continue
         key, _, part = item.partition("=")
         key = key.strip().casefold()
-        if key == "mass-fraction":
+        entry = REGISTRY.get(key)
+        if entry is not None and entry.part:
             part = part.strip()
             if not part:
-                raise CellchemError("--add mass-fraction=X: name the element or ion, e.g. mass-fraction=Cu")
-            try:
-                parse_formula(part)
-            except CellchemError as exc:
-                raise CellchemError(f"--add mass-fraction={part}: {exc}") from None
-            column = FillColumn("mass-fraction", f"Mass fraction of {part} (%)", MASS, part)
-        elif key in _FIXED and not part:
-            column = _FIXED[key]
+                raise CellchemError(f"--add {key}=X: {entry.part}")
+            if entry.check_part is not None:
+                try:
+                    entry.check_part(part)
+                except CellchemError as exc:
+                    raise CellchemError(f"--add {key}={part}: {exc}") from None
+            column = entry.column(part)
+        elif entry is not None and not part:
+            column = entry.column()
         else:
             raise CellchemError(
                 f"--add: '{item}' is not a column cellchem fills; the columns are "
-                + ", ".join(list(_FIXED) + ["mass-fraction=X"])
+                + ", ".join(
+                    [e.key for e in COLUMNS if not e.part] + [f"{e.key}=X" for e in COLUMNS if e.part]
+                )
             )
         if column in out:
             raise CellchemError(f"--add: '{item}' is asked for twice")
@@ -204,7 +310,7 @@ def fill_line(
     args = (formula, name, molar_mass_cell, cas, concentration, unit)
     if any(isinstance(v, UnsavedValue) for v in args[:4]):
         verdict = next(v for v in args[:4] if isinstance(v, UnsavedValue)).message
-        return FillLine(tuple(verdict if c.key == "verdict" else None for c in columns), False, verdict)
+        return FillLine(_verdict_only(columns, verdict), False, verdict)
     seen = tuple(str(o).strip() for o in others if isinstance(o, str) and o.strip())
     return _LINES.get(
         (columns, typed(*args), seen, mass_allowance, decimal_comma, weights),
@@ -215,7 +321,13 @@ def fill_line(
 _LINES: Memo[FillLine] = Memo(50_000)
 
 
-_WATER_FREE = frozenset({"cations", "anions", "verdict"})  # columns the water of crystallisation leaves alone
+def _verdict_only(columns: tuple[FillColumn, ...], verdict: str) -> tuple[object, ...]:
+    """The values of a line that is not filled: the verdict in the verdict column."""
+    return tuple(verdict if _entry(c).verdict else None for c in columns)
+
+
+def _entry(column: FillColumn) -> ColumnEntry:
+    return REGISTRY[column.key]
 
 
 def _same(a: Formula, b: Formula) -> bool:
@@ -345,47 +457,22 @@ def _fill_line(
                 reason = _mass_contradicts(compound, molar_mass_cell, mass_allowance, decimal_comma, weights)
     if compound is None or reason:
         verdict = reason + (f" ({verdict})" if reason and verdict != "ok" else "") if reason else verdict
-        values = tuple(verdict if c.key == "verdict" else None for c in columns)
-        return FillLine(values, False, verdict)
+        return FillLine(_verdict_only(columns, verdict), False, verdict)
     partly = ""
     if from_name and not _name_fixes_water(str(name), compound):
         partly = (
             f"the name {str(name).strip()!r} does not say the water of crystallisation, and"
             f" {compound.text()} has hydrates: only the columns that do not depend on it were filled"
         )
+    line = LineCompound(compound, concentration, unit, verdict if not partly else f"note: {partly}")
     values: list[object] = []
     for c in columns:
-        if partly and c.key not in _WATER_FREE:
+        entry = _entry(c)
+        if partly and entry.needs_water:
             values.append(None)
             continue
-        values.append(_value(c, compound, concentration, unit, verdict if not partly else f"note: {partly}"))
+        try:
+            values.append(entry.value(line, c.part))
+        except Exception:  # a refusal, or a failure of cellchem's own: the cell stays empty
+            values.append(None)
     return FillLine(tuple(values), True, verdict, partly)
-
-
-def _value(c: FillColumn, f: Formula, concentration: object, unit: object, verdict: str) -> object:
-    try:
-        if c.key == "formula":
-            return f.text()
-        if c.key == "name":
-            return name_from_formula(f)
-        if c.key == "molar-mass":
-            return float(molar_mass(f))
-        if c.key == "water":
-            water = f.water
-            return None if water is None else (int(water) if float(water).is_integer() else float(water))
-        if c.key == "cations":
-            return _ions_text(f, 1) or None
-        if c.key == "anions":
-            return _ions_text(f, -1) or None
-        if c.key == "mass-fraction":
-            return 100.0 * mass_fraction(f, c.part)
-        if c.key == "ionic-strength":
-            conc = _concentration(concentration, unit)
-            if conc is None:
-                return None
-            return float(ionic_strength([(f, conc)]))
-        if c.key == "verdict":
-            return verdict
-    except Exception:  # a refusal, or a failure of cellchem's own: the cell stays empty
-        return None
-    return None

@@ -1,4 +1,4 @@
-"""The formula engine: read formulas as inventories and supplier sheets write them.
+"""The formula notation: formulas as inventories and supplier sheets write them.
 
 The accepted notation is written down, with examples that run as tests, in
 ``docs/grammar.md``. In short: case-sensitive element symbols with counts,
@@ -11,6 +11,13 @@ unknown count), and an ion charge at the end (``SO4^2-``, ``SO4 2-``,
 The grammar (pyparsing) only recognises symbol-shaped tokens; looking a symbol
 up in the element table is a separate step, so that a message can say
 "unknown element symbol 'Xx'" rather than "Expected ...".
+
+This module knows the notation and the element table only: ``read_notation``
+gives a formula as written, with a sign right after a count ('NH4+' against
+'Fe3+') left as a ``LoneSign`` for the ion catalog to settle. The reader to
+call is ``cellchem.reading.parse_formula``, which settles the sign
+(``cellchem.ions.settle``) and sets the cations-first order of the canonical
+text (``Formula.order``) with the charge solver.
 """
 
 from __future__ import annotations
@@ -18,9 +25,10 @@ from __future__ import annotations
 import math
 import re
 import unicodedata
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from fractions import Fraction
-from functools import cache, cached_property, lru_cache
+from functools import cache, cached_property
 from itertools import product
 
 import pyparsing as pp
@@ -106,11 +114,16 @@ class Formula:
         parts: the salt and its hydrate or adduct parts, in order.
         charge: the net charge written in the formula (0 if none).
         source: the text the formula was read from.
+        order: the parts as the canonical text writes them (cations first:
+            CH3COONa is written NaCH3COO), where that differs from ``parts``;
+            set by the reader (``cellchem.reading``), which knows the ions.
+            Empty: the text writes the parts as they are.
     """
 
     parts: tuple[Part, ...]
     charge: int = 0
     source: str = field(default="", compare=False)
+    order: tuple[Part, ...] = field(default=(), compare=False, repr=False)
 
     # -- composition ------------------------------------------------------
     @property
@@ -149,8 +162,9 @@ class Formula:
 
     def anhydrous(self) -> Formula:
         """The formula without its water of crystallisation."""
-        kept = (self.parts[0],) + tuple(p for p in self.parts[1:] if not p.is_water)
-        return Formula(kept, self.charge, self.source)
+        kept = [0] + [i for i, p in enumerate(self.parts[1:], 1) if not p.is_water]
+        order = tuple(self.order[i] for i in kept) if self.order else ()
+        return Formula(tuple(self.parts[i] for i in kept), self.charge, self.source, order)
 
     def with_water(self, n: Number | None) -> Formula:
         """The same salt with ``n`` waters of crystallisation (0 for anhydrous,
@@ -169,7 +183,8 @@ class Formula:
                 )
             n = _norm(value)
         water = Part((Atom("H", 2), Atom("O", 1)), n)
-        return Formula(base.parts + (water,), self.charge, self.source)
+        order = base.order + (water,) if base.order else ()
+        return Formula(base.parts + (water,), self.charge, self.source, order)
 
     # -- text -------------------------------------------------------------
     def text(self, ascii: bool = False) -> str:
@@ -195,10 +210,16 @@ class Formula:
 
     @cached_property
     def _ordered_parts(self) -> tuple[Part, ...]:
-        # Cations first: the ion catalog knows which runs are cations.
-        from .charge import cations_first
+        if self.order or ORDER_PARTS is None:
+            return self.order or self.parts
+        return ORDER_PARTS(self) or self.parts
 
-        return tuple(cations_first(part, self.charge if i == 0 else 0) for i, part in enumerate(self.parts))
+
+# The cations-first order of a formula's parts, for its canonical text. It needs the ion
+# catalog and the charge solver, which sit above this module, so ``cellchem.reading`` sets it
+# when it is imported (as ``import cellchem`` does); it is computed on first printing, not on
+# every parse.
+ORDER_PARTS: Callable[[Formula], tuple[Part, ...]] | None = None
 
 
 def _norm(value: Number) -> Number:
@@ -643,17 +664,55 @@ def _syntax_error(text: str, normal: str, b: _Builder, exc: pp.ParseBaseExceptio
     )
 
 
-def _resolve_attached_charge(f: Formula, text: str) -> Formula:
-    """'NH4+' (ammonium) against 'Fe3+' (iron(III)): a lone sign after a count.
+@dataclass(frozen=True)
+class LoneSign:
+    """A lone sign right after a count ('NH4+', 'Fe3+', 'O2-', '[Co(NH3)5Cl]2+'):
+    the digits before the sign are the count in one reading, and the last digit
+    is the charge in the other. The notation cannot say which is meant; the ion
+    catalog settles it (``cellchem.ions.settle``).
 
-    The digits before the sign are the count in one reading, and the last digit
-    is the charge in the other. The reading that is an ion in the catalog wins
-    (NH4+, SO42-, C(NH2)3+). When neither is, a bracketed group
-    ('[Co(NH3)5Cl]2+') and a lone metal with one digit ('Ti4+') take the
-    charge reading;
-    otherwise, and when both are ions ('O2-': superoxide or oxide), the input
-    is refused with the two readings and the explicit ways to write each.
+    Attributes:
+        text: the input.
+        as_count: the reading with the digits as a count (NH4, charge +1).
+        as_charge: the reading with the last digit as the charge (NH, charge +4).
+        group: the digits follow a bracketed group ('[Co(NH3)5Cl]2+').
+        lone_element: the symbol when the charge reading is one atom of one
+            element with a positive charge ('Ti4+'), else ''.
+        bodies: the two readings' formulas as written, without the charge
+            (for the refusal's message).
     """
+
+    text: str
+    as_count: Formula
+    as_charge: Formula
+    group: bool
+    lone_element: str
+    bodies: tuple[str, str]
+
+    def refusal(self, count_name: str | None = None, charge_name: str | None = None) -> FormulaError:
+        """The refusal when the catalog does not settle the sign: both readings,
+        with the catalog names of those that are ions, and how to write each."""
+        body_a, body_b = self.bodies
+        charge_a = _render_charge(self.as_count.charge)
+        charge_b = _render_charge(self.as_charge.charge)
+        name_a = f" ({count_name})" if count_name else ""
+        name_b = f" ({charge_name})" if charge_name else ""
+        words_a, words_b = _charge_words(self.as_count.charge), _charge_words(self.as_charge.charge)
+        return FormulaError(
+            f"'{self.text}' is ambiguous: it reads as {body_a} with charge {words_a}{name_a}"
+            f" or as {body_b} with charge {words_b}{name_b};"
+            f" write '{body_a}{charge_a}' or '{body_b}{charge_b}'",
+            text=self.text,
+            choices=(body_a + charge_a, body_b + charge_b),
+        )
+
+
+def _lone_sign(f: Formula, text: str) -> Formula | LoneSign:
+    """A formula whose charge is a lone sign written right after a count: the
+    formula itself where the notation fixes the reading (a count of 1 or one
+    ending in 0 before the sign), a refusal where no reading would be safe
+    (a hydrate, a multiplier, or digits such as '12' before the sign), else the
+    two readings for the catalog to settle."""
     last_part = f.parts[-1]
     last = last_part.items[-1]
     digits = str(last.count)
@@ -674,44 +733,19 @@ def _resolve_attached_charge(f: Formula, text: str) -> Formula:
     else:
         moved = Atom(last.symbol, new_count)
     as_charge = Formula((Part(last_part.items[:-1] + (moved,), 1),), sign * int(digits[-1]), text)
-    from .ions import catalog_name
-
-    known_count = catalog_name(f.counts, f.charge)
-    known_charge = catalog_name(as_charge.counts, as_charge.charge)
-    if known_count and not known_charge:
-        return f
-    if known_charge and not known_count:
-        return as_charge
-    if not known_count and not known_charge:
-        # Neither is a catalog ion: a bracketed group ('[Co(NH3)5Cl]2+') and a
-        # lone element ('Ti4+', never tetratitanium(1+)) take the charge reading.
-        if isinstance(last, Group) or (
-            len(f.counts) == 1 and new_count == 1 and f.charge > 0 and _variable_metal(last.symbol)
-        ):
-            return as_charge
-    body_a = render_items(last_part.items)
-    body_b = render_items(as_charge.parts[0].items)
-    charge_a = _render_charge(f.charge)
-    charge_b = _render_charge(as_charge.charge)
-    name_a = f" ({known_count})" if known_count else ""
-    name_b = f" ({known_charge})" if known_charge else ""
-    raise FormulaError(
-        f"'{text}' is ambiguous: it reads as {body_a} with charge {_charge_words(f.charge)}{name_a}"
-        f" or as {body_b} with charge {_charge_words(as_charge.charge)}{name_b};"
-        f" write '{body_a}{charge_a}' or '{body_b}{charge_b}'",
-        text=text,
-        choices=(body_a + charge_a, body_b + charge_b),
+    lone = (
+        last.symbol
+        if isinstance(last, Atom) and len(f.counts) == 1 and new_count == 1 and f.charge > 0
+        else ""
     )
-
-
-def _variable_metal(symbol: str) -> bool:
-    """A metal the catalog gives more than one charge (Fe4+ reads as Fe 4+;
-    Na2+ is refused, since sodium forms only Na+)."""
-    from .elements import element
-    from .ions import ions_in
-
-    charges = {ion.charge for ion, _ in ions_in({symbol: 1}) if ion.charge > 0}
-    return element(symbol).is_metal and len(charges) > 1
+    return LoneSign(
+        text,
+        _bracketed_water(f),
+        _bracketed_water(as_charge),
+        isinstance(last, Group),
+        lone,
+        (render_items(last_part.items), render_items(as_charge.parts[0].items)),
+    )
 
 
 def _charge_words(charge: int) -> str:
@@ -721,29 +755,53 @@ def _charge_words(charge: int) -> str:
 _DECIMAL_COUNT = re.compile(r"(?<![\d.])(?:1|0\d*)\.\d")
 
 
-def parse_formula(text: str) -> Formula:
-    """Read a formula as inventories and supplier sheets write it.
+def too_long(text: str, what: str, limit: int) -> str | None:
+    """The message refusing a text longer than ``limit`` characters, or None.
+    It says how long the text is and how it begins, so that a user can find
+    the cell (the formula and the name readers share it)."""
+    if len(text) <= limit:
+        return None
+    return (
+        f"the text beginning '{text[:20]}' is {len(text)} characters long, too long to be {what}"
+        f" (at most {limit})"
+    )
 
-    Args:
-        text: e.g. ``"CuSO4·5H2O"``, ``"Na2B4O7.10H2O"``, ``"SO4 2-"``,
-            ``"[Fe(CN)6]4-"``, ``"CuSO₄·5H₂O"``.
 
-    Returns:
-        An immutable Formula; ``str()`` of it is the canonical text.
+def check_text(text: object) -> str:
+    """The text, if it may be a formula: refused when it is not text, or longer
+    than ``MAX_LENGTH`` characters (before any reading, or any memory of one)."""
+    if not isinstance(text, str):
+        raise FormulaError(f"{text!r} is not a formula (expected text such as 'NaCl')", text=str(text))
+    long = too_long(text, "a formula", MAX_LENGTH)
+    if long:
+        raise FormulaError(long, text=text[:MAX_LENGTH])
+    return text
+
+
+def read_notation(text: str) -> Formula | LoneSign:
+    """A formula as written: the notation and the element table alone.
+
+    Returns the Formula, or a ``LoneSign`` where a sign written right after a
+    count ('NH4+', 'Fe3+') leaves the count and the charge for the ion catalog
+    to tell apart. The canonical order of the text is not set here: call
+    ``cellchem.reading.parse_formula``, which does both.
 
     Raises:
         CellchemError: (a FormulaError) the text is not a formula; the message
             quotes it, gives the position counted from 1 and says what was
             expected.
 
-    >>> str(parse_formula("CuSO₄ . 5 H₂O"))
+    >>> read_notation("CuSO₄ . 5 H₂O").text()
     'CuSO4·5H2O'
-    >>> parse_formula("SO4--").charge
-    -2
+    >>> read_notation("NH4+").bodies
+    ('NH4', 'NH')
     """
-    if not isinstance(text, str):
-        raise FormulaError(f"{text!r} is not a formula (expected text such as 'NaCl')", text=str(text))
-    return _parse_formula(text)
+    check_text(text)
+    fast = _fast_parse(text)
+    if fast is not None:
+        return _bracketed_water(fast)
+    found = _parse_with_grammar(text)
+    return found if isinstance(found, LoneSign) else _bracketed_water(found)
 
 
 _SIMPLE = re.compile(r"([A-Z(\[][A-Za-z0-9()\[\]]*)(?:([·.])([1-9][0-9]{0,2})?([A-Z(][A-Za-z0-9()\[\]]*))?")
@@ -810,14 +868,6 @@ def _fast_parse(text: str) -> Formula | None:
     return Formula((Part(first, 1), Part(second, multiplier)), 0, text)
 
 
-@lru_cache(maxsize=65536)
-def _parse_formula(text: str) -> Formula:
-    fast = _fast_parse(text)
-    if fast is not None:
-        return _bracketed_water(fast)
-    return _bracketed_water(_parse_with_grammar(text))
-
-
 _WATER_ITEMS = (Atom("H", 2), Atom("O", 1))
 
 
@@ -838,13 +888,7 @@ def _bracketed_water(f: Formula) -> Formula:
     return Formula(parts, f.charge, f.source)
 
 
-def _parse_with_grammar(text: str) -> Formula:
-    if len(text) > MAX_LENGTH:
-        raise FormulaError(
-            f"the text beginning '{text[:20]}' is {len(text)} characters long, too long to be a"
-            f" formula (at most {MAX_LENGTH})",
-            text=text[:MAX_LENGTH],
-        )
+def _parse_with_grammar(text: str) -> Formula | LoneSign:
     normal, where = _normalise(text)
     # strip, keeping the position map in step
     lead = len(normal) - len(normal.lstrip())
@@ -919,7 +963,7 @@ def _parse_with_grammar(text: str) -> Formula:
         )
     formula = Formula(tuple(parts), charge.value, text)
     if charge.attached_sign:
-        formula = _resolve_attached_charge(formula, text)
+        return _lone_sign(formula, text)
     return formula
 
 
@@ -943,13 +987,6 @@ def _check_decimal_count(text: str, normal: str, b: _Builder, dot: tuple, part: 
             text=text,
             position=b.pos(loc - 1),
         )
-
-
-def as_formula(formula: str | Formula) -> Formula:
-    """Accept a Formula or text (parsed, cached)."""
-    if isinstance(formula, Formula):
-        return formula
-    return parse_formula(formula)
 
 
 # ---------------------------------------------------------------------------
@@ -997,11 +1034,14 @@ def case_readings(text: str) -> tuple[str, ...]:
 
     Used to explain a wrong-case input ('NACL' gives ('NaCl',); 'co' gives
     ('Co', 'CO')). The reading that is ``text`` itself, if any, is left out.
-    At most a handful are returned.
+    At most a handful are returned, and none for a text too long to be a
+    formula (``MAX_LENGTH``).
 
     >>> case_readings("co")
     ('Co', 'CO')
     """
+    if len(text) > MAX_LENGTH:
+        return ()
     normal, _ = _normalise(text.strip())
     pieces = re.split(r"([A-Za-z]+)", normal)
     options: list[list[str]] = []

@@ -28,8 +28,9 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 
 from .errors import CellchemError
-from .ions import Ion, find_ion
+from .ions import Ion
 from .mass import molar_mass
+from .reading import find_ion
 from .units import AMOUNT_PER_VOLUME, EQUIVALENTS_PER_VOLUME, MASS_PER_VOLUME, read_quantity
 
 

@@ -1,22 +1,21 @@
 """The ion catalog: the ions a chemical store meets, with charges and names.
 
-Data: ``data/ions.csv``, one row per ion with its source. Ions are found by
-name (IUPAC, legacy -ous/-ic, trade and regional spellings, any case), by
-formula with a charge (``'Al3+'``, ``'SO4 2-'``), or by formula alone when only
-one catalog ion has it (``'SO4'``). A metal with several charges and none
-given is refused with the choices listed.
+Data: ``data/ions.csv``, one row per ion with its source. This module holds
+the catalog, its lookups by element counts and charge, and how the catalog
+settles a sign written right after a count ('NH4+' against 'Fe3+',
+``settle``). Finding an ion from what a user typed (a name, or a formula with
+or without its charge) is ``cellchem.reading.find_ion``.
 """
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass, field
 from functools import cache, cached_property
 from math import gcd
 
-from .elements import element, is_symbol
-from .errors import CellchemError, UnknownIonError
-from .formula import Atom, Formula, Group, Number, parse_formula, render_items
+from .elements import element
+from .errors import CellchemError
+from .formula import Atom, Formula, Group, LoneSign, Number, read_notation, render_items
 from .tables import read_table, split_names
 
 CountsKey = tuple[tuple[str, Number], ...]
@@ -75,7 +74,8 @@ class Ion:
     def label(self) -> str:
         """How the ion is written in messages: ``Na+``, ``Fe3+``, ``SO4 2-``;
         with a caret (``O^2-``, ``O2^-``, ``NH2^-``) where the plain form would
-        read two ways. Every label reads back as this ion."""
+        read two ways. Every label reads back as this ion: a sign right after a
+        count is settled as ``parse_formula`` settles it (``settle``)."""
         magnitude = "" if abs(self.charge) == 1 else str(abs(self.charge))
         sign = "+" if self.charge > 0 else "-"
         if self.is_monatomic or self.is_complex or magnitude == "":
@@ -83,7 +83,8 @@ class Ion:
         else:
             plain = f"{self.text} {magnitude}{sign}"
         try:
-            back = parse_formula(plain)
+            found = read_notation(plain)
+            back = settle(found) if isinstance(found, LoneSign) else found
             if back.charge == self.charge and counts_key(back.counts) == self.key:
                 return plain
         except CellchemError:
@@ -101,8 +102,17 @@ class Ion:
         return f"Ion({self.label!r}, {self.name!r})"
 
 
+def data_formula(text: str, filename: str) -> Formula:
+    """A formula of a data table, as written (its charge, if any, is in a column
+    of its own: a sign in the formula is a fault of the table)."""
+    found = read_notation(text)
+    if isinstance(found, LoneSign):
+        raise ValueError(f"data file {filename}: formula {text!r} has a sign; give the charge in its column")
+    return found
+
+
 def _ion_from_row(row: dict[str, str]) -> Ion:
-    formula = parse_formula(row["formula"])
+    formula = data_formula(row["formula"], "ions.csv")
     return Ion(
         formula=formula,
         charge=int(row["charge"]),
@@ -170,7 +180,7 @@ def ion_values(filename: str, column: str) -> dict[tuple[CountsKey, int], float]
     and ``Ion.charge`` give them."""
     table = {}
     for row in read_table(filename):
-        f = parse_formula(row["formula"])
+        f = data_formula(row["formula"], filename)
         table[(counts_key(f.counts), int(row["charge"]))] = float(row[column])
     return table
 
@@ -186,186 +196,56 @@ def lookup(counts: dict[str, Number], charge: int) -> Ion | None:
     return _by_key().get((counts_key(counts), charge))
 
 
+def with_counts(counts: dict[str, Number]) -> tuple[Ion, ...]:
+    """The catalog ions with these element counts, of any charge (SO3: sulfite;
+    Fe: iron(II) and iron(III)), in the order of the data file."""
+    return _by_formula_key().get(counts_key(counts), ())
+
+
 # ---------------------------------------------------------------------------
-# Finding an ion from what a user typed
+# A lone sign after a count, settled by the catalog
 # ---------------------------------------------------------------------------
 
-_ROMAN = {1: "I", 2: "II", 3: "III", 4: "IV", 5: "V", 6: "VI", 7: "VII", 8: "VIII"}
 
-
-def normalise_name(text: str) -> str:
-    """Case-fold, collapse spaces, drop a trailing 'ion(s)', write a charge
-    number '(3+)' or an Arabic Stock number '(3)' as the Roman '(iii)'."""
-    name = " ".join(text.replace("\u00a0", " ").split()).casefold()
-    name = re.sub(r"\s+ions?$", "", name)
-    name = re.sub(r"\s*\(\s*", "(", name)
-    name = re.sub(r"\s*\)", ")", name)
-
-    def roman(m: re.Match[str]) -> str:
-        n = int(m.group(1))
-        return "(" + _ROMAN[n].casefold() + ")" if n in _ROMAN else m.group(0)
-
-    name = re.sub(r"\(\+?(\d)\+?\)", roman, name)
-    return name
-
-
-@cache
-def _by_name() -> dict[str, tuple[Ion, ...]]:
-    table: dict[str, list[Ion]] = {}
-
-    def add(name: str, ion: Ion) -> None:
-        key = normalise_name(name)
-        if ion not in table.setdefault(key, []):
-            table[key].append(ion)
-
-    for ion in catalog():
-        add(ion.name, ion)
-        if ion.legacy_name:
-            add(ion.legacy_name, ion)
-        for other in ion.other_names:
-            add(other, ion)
-        # element-name spellings (aluminum, cesium) for monatomic cations
-        if ion.is_monatomic and ion.charge > 0:
-            el = element(next(iter(ion.formula.counts)))
-            stock = ion.name[len(el.name) :] if ion.name.startswith(el.name) else ""
-            for variant in el.variants:
-                add(variant + stock, ion)
-    return {k: tuple(v) for k, v in table.items()}
-
-
-def _say_which(ions: tuple[Ion, ...]) -> str:
-    """'give the charge' when the charge tells the ions apart, else 'say which'."""
-    return "give the charge" if len({i.charge for i in ions}) == len(ions) else "say which"
-
-
-def _choices_text(ions: tuple[Ion, ...]) -> str:
-    return ", ".join(f"{ion.label} ({ion.name})" for ion in ions)
-
-
-def find_ion(text: str, role: str | None = None) -> Ion:
-    """An ion of the catalog from a name, or a formula with or without charge.
-
-    Args:
-        text: ``'aluminium'``, ``'Iron (III)'``, ``'ferric'``, ``'sulphate'``,
-            ``'Al3+'``, ``'SO4 2-'``, ``'[Fe(CN)6]4-'``, ``'SO4'``.
-        role: ``'cation'`` or ``'anion'`` to say which is wanted (used to
-            choose among names and to explain a mix-up), or None.
-
-    Returns:
-        The Ion.
+def settle(sign: LoneSign) -> Formula:
+    """'NH4+' (ammonium) against 'Fe3+' (iron(III)): the reading of a lone sign
+    after a count that the catalog settles. The reading that is a catalog ion
+    wins (NH4+, SO42-, C(NH2)3+). When neither is, a bracketed group
+    ('[Co(NH3)5Cl]2+') and a lone metal with one digit ('Ti4+') take the
+    charge reading; otherwise, and when both are ions ('O2-': superoxide or
+    oxide), the input is refused with the two readings and the explicit ways
+    to write each.
 
     Raises:
-        CellchemError: (an UnknownIonError) no catalog ion answers, or several
-            do (a metal with several charges and none given); the message
-            lists the choices.
+        CellchemError: (a FormulaError) the catalog does not settle the sign.
 
-    >>> find_ion("ferric").label
-    'Fe3+'
-    >>> find_ion("SO4 2-").name
-    'sulfate'
+    >>> settle(read_notation("NH4+")).counts, settle(read_notation("Fe3+")).charge
+    ({'N': 1, 'H': 4}, 3)
     """
-    if not isinstance(text, str) or not text.strip():
-        raise UnknownIonError(
-            "no ion given (expected a name such as 'sulfate' or a formula such as 'SO4 2-')", text=str(text)
-        )
-    raw = text.strip()
-    wanted = {"cation": 1, "anion": -1}.get(role or "", 0)
+    count, charge = sign.as_count, sign.as_charge
+    known_count = catalog_name(count.counts, count.charge)
+    known_charge = catalog_name(charge.counts, charge.charge)
+    if known_count and not known_charge:
+        return count
+    if known_charge and not known_count:
+        return charge
+    if not known_count and not known_charge:
+        # Neither is a catalog ion: a bracketed group ('[Co(NH3)5Cl]2+') and a
+        # lone element ('Ti4+', never tetratitanium(1+)) take the charge reading.
+        if sign.group or (sign.lone_element and _variable_metal(sign.lone_element)):
+            return charge
+    raise sign.refusal(known_count, known_charge)
 
-    def pick(ions: tuple[Ion, ...]) -> tuple[Ion, ...]:
-        if wanted:
-            signed = tuple(i for i in ions if (i.charge > 0) == (wanted > 0))
-            return signed or ions
-        return ions
 
-    named = _by_name().get(normalise_name(raw))
-    if named:
-        named = pick(named)
-        if len(named) == 1:
-            return named[0]
-        raise UnknownIonError(
-            f"'{raw}' names more than one ion: {_choices_text(named)}; say which"
-            f" (for example '{named[0].label}' or '{named[1].label}')",
-            text=raw,
-            choices=tuple(i.label for i in named),
-        )
-    # an element name for a metal with several charges, or a non-metal
-    el = None
-    try:
-        el = element(raw) if not is_symbol(raw) else None
-    except CellchemError:
-        el = None
-    if el is not None:
-        own = tuple(ion for ion in catalog() if tuple(ion.formula.counts) == (el.symbol,))
-        own = pick(own)
-        if len(own) > 1:
-            raise UnknownIonError(
-                f"'{raw}' forms more than one ion: {_choices_text(own)}; {_say_which(own)}"
-                f" (for example '{own[0].name}' or '{own[0].label}')",
-                text=raw,
-                choices=tuple(i.label for i in own),
-            )
-        if len(own) == 1:
-            ion = own[0]
-            raise UnknownIonError(
-                f"'{raw}' is the element; its ion is {ion.name} ({ion.label})", text=raw, choices=(ion.label,)
-            )
-    # an element name with a Stock number the catalog does not hold: 'iron(IV)'
-    stock = re.fullmatch(r"([a-z]+)\((i{1,3}|iv|v|vi{0,3}|ix|x)\)", normalise_name(raw))
-    if stock:
-        try:
-            metal = element(stock.group(1))
-        except CellchemError:
-            metal = None
-        if metal is not None:
-            own = tuple(
-                ion for ion in catalog() if tuple(ion.formula.counts) == (metal.symbol,) and ion.charge > 0
-            )
-            held = f"; the catalog has {_choices_text(own)}" if own else ""
-            raise UnknownIonError(
-                f"'{raw}' is not an ion in the catalog{held} (see DEVELOPERS.md to add one)",
-                text=raw,
-                choices=tuple(i.label for i in own),
-            )
-    # a formula
-    try:
-        formula = parse_formula(raw)
-    except CellchemError as exc:
-        if exc.choices and "ambiguous" in str(exc):
-            raise UnknownIonError(str(exc), text=raw, choices=exc.choices) from exc
-        raise UnknownIonError(
-            f"'{raw}' is neither an ion name cellchem knows nor a formula ({exc})", text=raw
-        ) from exc
-    if len(formula.parts) > 1 or formula.has_unknown_count:
-        raise UnknownIonError(f"'{raw}' is a compound with hydrate or adduct parts, not an ion", text=raw)
-    if formula.charge:
-        ion = lookup(formula.counts, formula.charge)
-        if ion is not None:
-            return ion
-        same = _by_formula_key().get(counts_key(formula.counts), ())
-        also = f"; the catalog has {_choices_text(same)}" if same else ""
-        raise UnknownIonError(
-            f"'{raw}' is not an ion in the catalog{also} (see DEVELOPERS.md to add one)",
-            text=raw,
-            choices=tuple(i.label for i in same),
-        )
-    same = pick(_by_formula_key().get(counts_key(formula.counts), ()))
-    if len(same) == 1:
-        return same[0]
-    if len(same) > 1:
-        raise UnknownIonError(
-            f"'{raw}' has no charge and matches more than one ion: {_choices_text(same)}; give the charge",
-            text=raw,
-            choices=tuple(i.label for i in same),
-        )
-    raise UnknownIonError(
-        f"'{raw}' is not an ion in the catalog (expected a name such as 'sulfate' or a formula"
-        " with its charge such as 'SO4 2-')",
-        text=raw,
-    )
+def _variable_metal(symbol: str) -> bool:
+    """A metal the catalog gives more than one charge (Fe4+ reads as Fe 4+;
+    Na2+ is refused, since sodium forms only Na+)."""
+    charges = {ion.charge for ion, _ in ions_in({symbol: 1}) if ion.charge > 0}
+    return element(symbol).is_metal and len(charges) > 1
 
 
 # ---------------------------------------------------------------------------
-# Salts by charge balance
+# Ions in compound formulas
 # ---------------------------------------------------------------------------
 
 
@@ -383,43 +263,3 @@ def ion_term(ion: Ion, count: int) -> str:
     if ion.is_complex:
         return body + str(count)
     return f"({body}){count}"
-
-
-def salt_formula(cation: str | Ion, anion: str | Ion) -> str:
-    """The neutral compound of two ions, in the lowest whole-number ratio.
-
-    Args:
-        cation: by name, symbol or formula with charge (``'Al3+'``,
-            ``'aluminium'``, ``'iron(III)'``, ``'NH4+'``).
-        anion: likewise (``'sulfate'``, ``'SO4 2-'``).
-
-    Returns:
-        The canonical formula, e.g. ``'Al2(SO4)3'``.
-
-    Raises:
-        CellchemError: an ion is unknown, its charge is open (a metal with
-            several charges), or the roles are the wrong way round.
-
-    >>> salt_formula("aluminium", "sulfate")
-    'Al2(SO4)3'
-    >>> salt_formula("NH4+", "PO4 3-")
-    '(NH4)3PO4'
-    """
-    cat = cation if isinstance(cation, Ion) else find_ion(cation, role="cation")
-    an = anion if isinstance(anion, Ion) else find_ion(anion, role="anion")
-    if cat.charge <= 0:
-        raise UnknownIonError(
-            f"the cation given, '{cation}', is {cat.name} ({cat.label}), an anion;"
-            " give the cation first and the anion second",
-            text=str(cation),
-        )
-    if an.charge >= 0:
-        raise UnknownIonError(
-            f"the anion given, '{anion}', is {an.name} ({an.label}), a cation;"
-            " give the cation first and the anion second",
-            text=str(anion),
-        )
-    g = gcd(cat.charge, -an.charge)
-    n_cat = -an.charge // g
-    n_an = cat.charge // g
-    return str(parse_formula(ion_term(cat, n_cat) + ion_term(an, n_an)))

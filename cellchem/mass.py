@@ -15,7 +15,8 @@ from functools import lru_cache
 from .charge import charge_balance
 from .elements import MASS_NUMBER, element
 from .errors import CellchemError, ChemistryError
-from .formula import Formula, Number, as_formula, parse_formula, render_items
+from .formula import Formula, Number, render_items
+from .reading import as_formula, parse_formula
 
 
 class MolarMass(float):

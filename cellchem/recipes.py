@@ -21,6 +21,7 @@ from .errors import CellchemError, ChemistryError
 from .formula import Formula, Number
 from .ions import counts_key
 from .mass import molar_mass
+from .reading import parse_formula
 from .solutions import (
     STRONG_ACID,
     STRONG_BASE,
@@ -66,8 +67,6 @@ class Caution:
 
 @cache
 def _caution_rows() -> tuple[tuple[str, object, Caution], ...]:
-    from .formula import parse_formula
-
     rows = []
     for row in read_table("solution_cautions.csv"):
         kind = row["match_kind"]

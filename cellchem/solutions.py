@@ -66,10 +66,12 @@ from fractions import Fraction
 from functools import cache, cached_property, lru_cache
 
 from .charge import IONIC, MOLECULAR, charge_balance
-from .errors import CellchemError, ChemistryError
-from .formula import Formula, Number, parse_formula
+from .errors import CellchemError, ChemistryError, RangeWarning
+from .formula import Formula, Number
 from .ions import Ion, counts_key
 from .mass import molar_mass
+from .names import read_name
+from .reading import parse_formula
 from .tables import read_table
 from .units import (
     AMOUNT_PER_MASS,
@@ -79,6 +81,7 @@ from .units import (
     in_base,
     read_quantity,
 )
+from .water import debye_huckel_constants
 
 STRONG_ELECTROLYTE = "strong electrolyte"
 STRONG_ACID = "strong acid"
@@ -93,11 +96,6 @@ ION = "ion"
 FULLY_DISSOCIATED = (STRONG_ELECTROLYTE, STRONG_ACID, STRONG_BASE, ION)
 
 _STRONG_BASE_METALS = frozenset({"Li", "Na", "K", "Rb", "Cs", "Ca", "Sr", "Ba"})
-
-
-class RangeWarning(UserWarning):
-    """A value computed outside the range its model is trusted in: an activity
-    model past its limit, a concentration above what dissolves."""
 
 
 class Value(float):
@@ -202,8 +200,6 @@ def _read_solute(solute: str | Formula) -> Formula:
     try:
         return parse_formula(solute)
     except CellchemError as formula_error:
-        from .names import read_name  # names sit beside solutions in the core
-
         try:
             return parse_formula(read_name(solute).formula)
         except CellchemError:
@@ -636,8 +632,6 @@ def _davies_mean(z_product: int, strength: float, basis: str) -> float:
     """gamma± of the Davies equation at 25 C for a charge type |z+ z-|."""
     if strength <= 0:
         return 1.0
-    from .activity import debye_huckel_constants  # the activity models sit on top of this module
-
     a, _ = debye_huckel_constants(25.0, basis)
     root = math.sqrt(strength)
     return 10 ** (-a * z_product * (root / (1 + root) - 0.3 * strength))

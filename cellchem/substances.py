@@ -24,8 +24,9 @@ from importlib import resources
 
 from .cas import read_cas
 from .errors import CellchemError
-from .formula import Formula, as_formula
+from .formula import Formula
 from .names import fold_name as _fold_name
+from .reading import as_formula
 
 FILE = "substances.sqlite"
 

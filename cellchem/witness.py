@@ -19,9 +19,10 @@ from collections.abc import Callable
 from dataclasses import dataclass, replace
 
 from .errors import CellchemError
-from .formula import Formula, parse_formula
+from .formula import Formula
 from .mass import molar_mass
 from .names import as_ions, hydrate_word, name_from_formula, same_substance
+from .reading import parse_formula
 from .substances import Substance, by_composition, composition_key
 
 NAME, FORMULA, MASS, CAS = "name", "formula", "molar_mass", "cas"

@@ -14,7 +14,7 @@ import openpyxl
 import pytest
 
 from cellchem import CellchemError, molar_mass
-from cellchem.adapters.files.fill_text import _raw_records
+from cellchem.adapters.files.text import open_text_table
 from cellchem.cli import main
 from cellchem.fill import DEFAULT_COLUMNS, fill_line, read_columns
 
@@ -90,10 +90,17 @@ def test_ionic_strength_needs_a_unit():
     assert fill_line(cols, "MgCl2", None, concentration=0.1).values == (None,)  # no unit: not guessed
 
 
-def test_raw_records_split_like_csv():
-    text = 'a,b\r\n"x\r\ny",z\r\nlast'
-    assert _raw_records(text) == [("a,b", "\r\n"), ('"x\r\ny",z', "\r\n"), ("last", "")]
-    assert [r for r in csv.reader(io.StringIO(text, newline=""))] == [["a", "b"], ["x\r\ny", "z"], ["last"]]
+def test_raw_records_split_like_csv(tmp_path):
+    text = 'a,b\r\n"x\r\ny",z\r\n5" disk,"q\n"\nlast'
+    path = tmp_path / "list.csv"
+    path.write_bytes(text.encode("utf-8"))
+    records = list(open_text_table(path, delimiter=",").records())
+    assert [r.raw for r in records] == ["a,b\r\n", '"x\r\ny",z\r\n', '5" disk,"q\n"\n', "last"]
+    assert [r.line for r in records] == [1, 2, 4, 6]
+    # a quote inside a cell that does not start with one is an ordinary character
+    expected = [["a", "b"], ["x\r\ny", "z"], ['5" disk', "q\n"], ["last"]]
+    assert [r.fields for r in records] == expected
+    assert list(csv.reader(io.StringIO(text, newline=""))) == expected
 
 
 def test_csv_fill_keeps_every_byte_and_the_dialect(tmp_path, capsys):

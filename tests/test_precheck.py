@@ -238,12 +238,13 @@ def test_empty_file(tmp_path, name):
     [
         ("stock.xls", ("legacy Excel format", "save it as .xlsx")),
         ("stock.XLS", ("legacy Excel format", "save it as .xlsx")),
-        ("stock.ods", ("OpenDocument", "save as .xlsx or export CSV")),
+        ("stock.ods", ("OLE2 compound file", "password")),
+        ("stock.ots", ("OpenDocument template", "save it as .ods")),
         ("stock.xlsb", ("binary workbook (.xlsb)", "save it as .xlsx")),
         ("stock.xltx", ("template", "save it as .xlsx")),
         ("stock", ("no file extension", "name it .xlsx", ".csv")),
         (".xlsx", ("no file extension",)),
-        ("stock.pdf", ("extension '.pdf'", ".xlsx, .xlsm", ".csv, .txt")),
+        ("stock.pdf", ("extension '.pdf'", ".xlsx, .xlsm, .ods", ".csv, .txt")),
     ],
 )
 def test_formats_not_read_say_what_to_save_as(tmp_path, name, words):
@@ -685,18 +686,19 @@ def test_require_defusedxml_passes_with_the_workbook_extra():
     assert require_defusedxml() is None
 
 
-@needs_workbook
-def test_openpyxl_not_using_defusedxml(tmp_path, monkeypatch):
-    import openpyxl.xml
+def test_the_readers_refuse_what_defusedxml_refuses():
+    """The streaming readers parse with expat and refuse a document type
+    the way defusedxml does (its own exception class), before any entity."""
+    from defusedxml import DTDForbidden
 
-    monkeypatch.setattr(openpyxl.xml, "DEFUSEDXML", False)
-    with pytest.raises(UnusableFile, match=r"openpyxl is not using defusedxml .*OPENPYXL_DEFUSEDXML"):
-        require_defusedxml()
-    message = refusal(write(tmp_path, "stock.xlsx", real_workbook()))
-    assert_words(message, "cannot be checked: openpyxl is not using defusedxml")
+    from cellchem.adapters.files.xlsx import safe_parser
+
+    parser = safe_parser()
+    with pytest.raises(DTDForbidden):
+        parser.Parse(b'<?xml version="1.0"?><!DOCTYPE x [<!ENTITY a "aaaa">]><x>&a;</x>', True)
 
 
-@pytest.mark.parametrize("module", ["defusedxml", pytest.param("openpyxl", marks=needs_workbook)])
+@pytest.mark.parametrize("module", ["defusedxml"])
 def test_missing_library(tmp_path, monkeypatch, module):
     monkeypatch.setitem(sys.modules, module, None)  # import then raises ImportError
     monkeypatch.setitem(sys.modules, f"{module}.xml", None)
@@ -753,3 +755,20 @@ def test_damaged_real_workbooks_give_a_kind_or_unusable_file(tmp_path, stored, e
             check(path)
         except UnusableFile as exc:
             assert "\n" not in str(exc) and str(exc).startswith(f"'{path}' ")
+
+
+def test_a_part_that_inflates_like_a_bomb_is_refused(tmp_path):
+    """A sheet part of 40 MiB of one repeated cell (about 1,000 to 1) is
+    refused before it is parsed; the workbook's other parts are ordinary."""
+    source = io.BytesIO(real_workbook())
+    out = io.BytesIO()
+    with zipfile.ZipFile(source) as zin, zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename == "xl/worksheets/sheet1.xml":
+                data = data.replace(
+                    b"</sheetData>", b"<row>" + b"<c><v>1</v></c>" * (40 << 16) + b"</row></sheetData>"
+                )
+            zout.writestr(info.filename, data)
+    message = refusal(write(tmp_path, "stock.xlsx", out.getvalue()))
+    assert_words(message, "xl/worksheets/sheet1.xml", "inflates from", "64 to 1", "zip bomb")

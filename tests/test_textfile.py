@@ -424,15 +424,54 @@ def test_breaks_inside_quotes_kept_exactly(tmp_path: Path) -> None:
 def test_very_long_line_reads(tmp_path: Path) -> None:
     cells = [f"cell {i:05d} " + "x" * 90 for i in range(3000)]  # one line of about 300 000 characters
     table = read_text_table(write(tmp_path, (",".join(cells) + "\r\nend\r\n").encode("ascii")))
-    assert table.rows == (tuple(cells), ("end",))
+    # the first 256 cells are read (columns A to IV), the rest are not kept; a note says so
+    assert table.rows == (tuple(cells[:256]), ("end",))
     assert table.line_numbers == (1, 2)
+    assert table.notes[-1] == "columns beyond IV were not read (first on line 1)"
 
 
-def test_overlong_cell_refused(tmp_path: Path) -> None:
-    path = write(tmp_path, b"Name,Note\r\nSalt," + b"x" * 200_000 + b"\r\n")
-    assert refusal(path) == (
-        f"'{path}': line 2: a cell is longer than {csv.field_size_limit()} characters,"
-        " more than a table cell holds; look for a quote that is never closed"
+def test_empty_cells_beyond_the_last_column_read_are_no_loss(tmp_path: Path) -> None:
+    table = read_text_table(write(tmp_path, ("a" + "," * 300 + "\r\nb,c\r\n").encode("ascii")))
+    assert table.rows == (("a",) + ("",) * 255, ("b", "c"))
+    assert not any("were not read" in note for note in table.notes)
+
+
+CUT_NOTE = (
+    "a cell is longer than 32,767 characters, more than a spreadsheet cell holds:"
+    " only its first 32,767 were read"
+)
+
+
+@pytest.mark.parametrize("quoted", [False, True], ids=["plain", "quoted"])
+@pytest.mark.parametrize("length", [32_768, 200_000], ids=["one-over", "csv-module-limit"])
+def test_an_overlong_cell_is_cut_and_its_row_named(tmp_path: Path, length: int, quoted: bool) -> None:
+    # 32 767 characters is the most a spreadsheet cell holds (common practice: Excel's specification)
+    text = "x" * (length - 3) + "end"
+    cell = f'"{text}"' if quoted else text
+    path = write(tmp_path, f"Name,Note,Formula\r\nSalt,{cell},NaCl\r\nSugar,ok,C12H22O11\r\n".encode("ascii"))
+    table = read_text_table(path)
+    assert table.rows == (
+        ("Name", "Note", "Formula"),
+        ("Salt", text[:32_767], "NaCl"),
+        ("Sugar", "ok", "C12H22O11"),
+    )
+    assert table.line_numbers == (1, 2, 3)
+    assert table.notes[-1] == f"line 2: {CUT_NOTE}"
+
+
+def test_a_cell_of_the_longest_length_is_read(tmp_path: Path) -> None:
+    table = read_text_table(write(tmp_path, b'Name,Note\r\nSalt,"' + b"x" * 32_767 + b'"\r\n'))
+    assert table.rows == (("Name", "Note"), ("Salt", "x" * 32_767))
+
+
+def test_an_overlong_quoted_cell_over_several_lines_names_where_it_ends(tmp_path: Path) -> None:
+    cell = "\n".join(["y" * 10_000] * 5)  # five lines, 50 004 characters
+    path = write(tmp_path, f'Name,Note\r\nSalt,"{cell}"\r\nSugar,ok\r\n'.encode("ascii"))
+    table = read_text_table(path)
+    assert table.rows == (("Name", "Note"), ("Salt", cell[:32_767]), ("Sugar", "ok"))
+    assert table.line_numbers == (1, 2, 7)
+    assert table.notes[-1] == (
+        f"line 2: {CUT_NOTE} (it runs to line 6: look for a quote that is never closed)"
     )
 
 

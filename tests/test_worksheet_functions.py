@@ -108,19 +108,172 @@ def test_grams_and_convert():
     assert sf.cc_grams("NaCl", 0.1, 1, 99).startswith(MARK)  # a purity over 1 is refused, not guessed
 
 
-# -- the Excel declarations ----------------------------------------------------------------------
+# -- the Excel declarations, generated from FUNCTIONS ------------------------------------------
+
+
+def _example_arguments(spec):
+    """The arguments of a function's README example (``=CC_X("a",0.1,,"b")``): strings and numbers as
+    a cell gives them, an omitted argument or a cell reference as None."""
+    inner = spec.example.split(" gives ")[0].split(" spills ")[0]
+    inner = inner[inner.index("(") + 1 : inner.rindex(")")]
+    tokens = re.findall(r'"[^"]*"|[^,]+|(?<=,)(?=,|$)|^(?=,)', inner)
+    values = []
+    for token in tokens:
+        if token.startswith('"'):
+            values.append(token[1:-1])
+        elif re.fullmatch(r"-?\d+(\.\d+)?", token):
+            values.append(float(token))
+        else:
+            values.append(None)  # empty, or a reference such as A2:A7
+    return values
+
+
+def test_example_arguments_are_read_as_written():
+    grams = sf.FUNCTIONS["CC_GRAMS"]
+    assert _example_arguments(grams) == ["CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O"]
+    assert _example_arguments(sf.FUNCTIONS["CC_IONBALANCE"]) == [None, None, "mg/L"]
+
+
+def _inputs(spec):
+    """A few argument lists for one function: its example, every argument empty, the example with its
+    first argument as a column of two cells, a cell that does not read, and a wrong type."""
+    example = _example_arguments(spec)
+    assert len(example) <= len(spec.arguments), spec.example
+    example += [None] * (len(spec.arguments) - len(example))
+    first = example[0]
+    return [
+        example,
+        [None] * len(spec.arguments),
+        [[[first], [None]]] + example[1:],
+        ["Xx(("] + example[1:],
+        [True] + example[1:],
+    ]
 
 
 @pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
 def test_each_function_is_declared_for_excel(name):
     spec = sf.FUNCTIONS[name]
     fn = getattr(xlwings_udfs, name)
-    params = list(inspect.signature(fn).parameters)
-    assert params == [a.name for a in spec.arguments]
-    assert fn.__doc__ == spec.summary
+    assert name in xlwings_udfs.__all__
+    assert fn.__name__ == name and fn.__doc__ == spec.summary
+    params = inspect.signature(fn).parameters
+    assert list(params) == [a.name for a in spec.arguments]
+    # xlwings reads the signature: every argument positional, optional, None when left out in the cell
+    for p in params.values():
+        assert p.kind is inspect.Parameter.POSITIONAL_OR_KEYWORD and p.default is None
+    # the signature Excel sees is the one the table's function is written with
+    assert inspect.signature(fn) == inspect.signature(spec.implementation)
     for a in spec.arguments:
         assert a.description and len(a.description) < 120
     assert spec.example.startswith("=" + name)
+
+
+@pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
+def test_each_excel_function_gives_what_the_table_gives(name):
+    spec = sf.FUNCTIONS[name]
+    fn = getattr(xlwings_udfs, name)
+    names = [a.name for a in spec.arguments]
+    for args in _inputs(spec):
+        expected = spec.implementation(*args)
+        assert fn(*args) == expected, args
+        assert fn(**dict(zip(names, args))) == expected, args
+    with pytest.raises(TypeError):
+        fn(*[None] * (len(names) + 1))
+    with pytest.raises(TypeError):
+        fn(no_such_argument=1)
+
+
+class _Recorder:
+    """Stands in for xlwings: records the declarations made through func and arg."""
+
+    def __init__(self):
+        self.calls = []
+
+    def func(self, **options):
+        def mark(f):
+            self.calls.append(("func", f.__name__, options))
+            return f
+
+        return mark
+
+    def arg(self, name, **options):
+        def mark(f):
+            self.calls.append(("arg", f.__name__, name, options))
+            return f
+
+        return mark
+
+
+@pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
+def test_each_function_is_declared_through_xlwings_decorators(name, monkeypatch):
+    recorder = _Recorder()
+    monkeypatch.setattr(xlwings_udfs, "xw", recorder)
+    spec = sf.FUNCTIONS[name]
+    xlwings_udfs.declare(spec)
+    # arguments first, then the function, as stacked decorators apply them
+    assert recorder.calls == [
+        ("arg", name, a.name, {"doc": a.description, "ndim": 2, "err_to_str": True})
+        for a in reversed(spec.arguments)
+    ] + [("func", name, {"category": "cellchem"})]
+
+
+_CLASSIC_ADDIN = """
+import inspect, json, sys, types
+# xlwings' classic (Windows, COM) decorators, imported here with the Windows modules stubbed
+for module in ("pythoncom", "pywintypes", "win32com", "win32com.client"):
+    sys.modules[module] = types.ModuleType(module)
+sys.modules["pythoncom"].CoInitialize = lambda: None
+sys.modules["win32com.client"].Dispatch = None
+try:
+    import xlwings, xlwings.udfs
+except Exception as exc:
+    print(json.dumps({"skip": repr(exc)}))
+    raise SystemExit(0)
+xlwings.func, xlwings.arg = xlwings.udfs.xlfunc, xlwings.udfs.xlarg
+from cellchem.adapters.sheets import excel
+found = {}
+for attr in dir(excel):  # as xlwings' import_udfs looks for functions
+    info = getattr(getattr(excel, attr), "__xlfunc__", None)
+    if info is not None:
+        found[attr] = {k: v for k, v in info.items() if k != "argmap"}
+print(json.dumps(found))
+"""
+
+
+def test_the_classic_xlwings_addin_reads_the_table():
+    import json
+    import subprocess
+    import sys
+
+    run = subprocess.run([sys.executable, "-c", _CLASSIC_ADDIN], capture_output=True, text=True, check=True)
+    found = json.loads(run.stdout)
+    if "skip" in found:
+        pytest.skip(f"xlwings' classic decorators cannot be loaded here: {found['skip']}")
+    assert set(found) == set(sf.FUNCTIONS)
+    for name, spec in sf.FUNCTIONS.items():
+        info = found[name]
+        assert (info["name"], info["category"], info["sub"]) == (name, "cellchem", False)
+        assert info["ret"]["doc"] == spec.summary  # the description in Excel's function wizard
+        assert [a["name"] for a in info["args"]] == [a.name for a in spec.arguments]
+        assert [a["doc"] for a in info["args"]] == [a.description for a in spec.arguments]
+        for a in info["args"]:
+            assert a["options"] == {"ndim": 2, "err_to_str": True}
+            assert "optional" in a and a["optional"] is None and not a["vararg"]
+
+
+def test_without_xlwings_the_functions_are_plain_python():
+    import subprocess
+    import sys
+
+    code = (
+        "import sys; sys.modules['xlwings'] = None\n"  # import xlwings then raises ImportError
+        "from cellchem.adapters.sheets import excel\n"
+        "assert excel.xw is None\n"
+        "assert not hasattr(excel.CC_FORMULA, '__xlfunc__')\n"
+        "print(excel.CC_FORMULA('ferric chloride'), excel.CC_NAME.__doc__)\n"
+    )
+    run = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert run.stdout.strip() == "FeCl3 " + sf.FUNCTIONS["CC_NAME"].summary
 
 
 def test_readme_lists_every_function():
@@ -154,9 +307,10 @@ def evaluated():
     import numpy as np
 
     functions = formulas.get_functions()
-    for name, spec in sf.FUNCTIONS.items():
+    for name in sf.FUNCTIONS:
+        udf = getattr(xlwings_udfs, name)  # the demo through the Excel layer
 
-        def run(*args, _impl=spec.implementation):
+        def run(*args, _impl=udf):
             result = _impl(*[_cell(a) for a in args])
             return np.array(result, dtype=object) if isinstance(result, list) else result
 

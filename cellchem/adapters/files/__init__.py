@@ -19,6 +19,13 @@ MAX_COLUMNS = 256  # columns read from one sheet; columns beyond are not read (t
 # ABSURD_MIN_CELLS in all, is refused as absurd for the file's size
 ABSURD_CELLS_PER_BYTE = 100
 ABSURD_MIN_CELLS = 10_000_000
+# a part declaring more than MAX_RATIO_FROM_BYTES uncompressed that inflates more than
+# MAX_INFLATION_RATIO to 1 is refused as a zip bomb: sheets of data compress about 5 to 20 to 1,
+# and sheets of formatted empty cells or rows, whose references differ from cell to cell, up to
+# about 25 to 1 (measured with zlib at levels 1, 6 and 9)
+MAX_RATIO_FROM_BYTES = 32 << 20
+MAX_INFLATION_RATIO = 64
+MAX_CELL_CHARS = 32_767  # the longest text a spreadsheet cell holds; a longer text is cut while it is read
 
 
 def one_line(exc: object, limit: int = 300) -> str:
@@ -26,3 +33,8 @@ def one_line(exc: object, limit: int = 300) -> str:
     cut to ``limit`` characters."""
     text = " ".join(str(exc).split())
     return text if len(text) <= limit else text[: limit - 3] + "..."
+
+
+# stands, in a row whose columns read are empty, for the content of the columns not read (so that
+# a row holding only a quantity is not a blank row)
+OTHER_CELLS = "(a cell of a column not read)"

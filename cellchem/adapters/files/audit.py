@@ -5,9 +5,10 @@ returns; the checks themselves are ``cellchem.audit``'s."""
 from __future__ import annotations
 
 import sys
+from collections import deque
 from collections.abc import Callable, Iterator, Mapping, Sequence
 from dataclasses import dataclass, field
-from itertools import chain, islice
+from itertools import chain
 from pathlib import Path
 
 from ...audit import STANDARD_WEIGHTS, WARNING, Summary, iter_audit
@@ -174,30 +175,42 @@ def _sheet_failed(report: SheetReport, exc: CellchemError, number_of: Callable[[
 
 def _audit_table(
     report: SheetReport,
-    rows: Iterator[Sequence[object]],
+    rows: Iterator[tuple[int, Sequence[object]]],
     options: Options,
     findings: list[FindingRecord],
     *,
     columns: SheetColumns,
-    numbers: Callable[[int], int] | None = None,
-    index_of: Callable[[int], int | None] | None = None,
     decimal_comma: bool | None = None,
     total: int | None = None,
     cell_filter: Callable[[Layout, Iterator[Sequence[object]]], Iterator[Sequence[object]]] | None = None,
+    gaps_are_rows: bool = True,
 ) -> None:
-    number_of = numbers or (lambda i: i + 1)
+    """Audit one table. ``rows``: (sheet row or line number, cells) in order,
+    as every reader streams them; when it has a ``keep`` attribute it is told
+    which columns the checks need once the header is found."""
+    head: list[tuple[int, Sequence[object]]] = []
+    wanted = columns.header_row
+    for pair in rows:
+        head.append(pair)
+        if len(head) >= HEADER_SEARCH_ROWS and (wanted is None or pair[0] >= wanted):
+            break
+    numbers = [n for n, _cells in head]
     header_index = None
-    if columns.header_row is not None:
-        header_index = (index_of or (lambda n: n - 1))(columns.header_row)
-        if header_index is None:
-            report.error = f"--header-row {columns.header_row}: no row starts there"
+    if wanted is not None:
+        if wanted not in numbers:
+            report.error = (
+                f"--header-row {wanted}: no row starts there"
+                if numbers and wanted < numbers[-1]
+                else f"--header-row {wanted}: the table has only {numbers[-1] if numbers else 0} rows"
+            )
             return
-    head = list(islice(rows, max(HEADER_SEARCH_ROWS, (header_index or 0) + 1)))
-    if header_index is not None and header_index >= len(head):
-        report.error = f"--header-row {columns.header_row}: the table has only {len(head)} rows"
-        return
+        header_index = numbers.index(wanted)
+
+    def number_of(i: int) -> int:
+        return numbers[i] if i < len(numbers) else i + 1
+
     try:
-        layout = layout_of(head, columns, header_index)
+        layout = layout_of([cells for _n, cells in head], columns, header_index)
     except CellchemError as exc:
         _sheet_failed(report, exc, number_of)
         return
@@ -211,17 +224,34 @@ def _audit_table(
     for text in layout.ambiguous:
         report.notes.append(f"heading {text}")
     report.notes.extend(layout.replaced)
-    body: Iterator[Sequence[object]] = chain(head[layout.header_index + 1 :], rows)
+    if hasattr(rows, "keep") and {"formula", "name"} <= layout.roles.keys():
+        rows.keep = frozenset(layout.roles.values())  # the checks read the role columns only
+    pending: deque[int] = deque()
+
+    def body_rows() -> Iterator[Sequence[object]]:
+        last = report.header_row
+        for number, cells in chain(head[layout.header_index + 1 :], rows):
+            if gaps_are_rows:  # sheet rows the file leaves out are blank rows of the table
+                for gap in range(last + 1, number):
+                    pending.append(gap)
+                    yield ()
+            last = number
+            pending.append(number)
+            yield cells
+
+    def row_numbers() -> Iterator[int]:
+        while True:
+            yield pending.popleft()
+
+    body: Iterator[Sequence[object]] = body_rows()
     if cell_filter is not None:
         body = cell_filter(layout, body)
-    first = layout.header_index + 1
-    row_numbers = (number_of(i) for i in range(first, 1 << 62))
     label = f"{Path(report.file).name} {report.sheet}".strip()
     for result in iter_audit(
         _progress(body, total, label),
         layout,
-        first + 1,
-        row_numbers=row_numbers,
+        report.header_row + 1,
+        row_numbers=row_numbers(),
         mass_allowance=options.mass_allowance,
         decimal_comma=decimal_comma,
         weights=options.weights,
@@ -246,7 +276,7 @@ def audit_file(path: str | Path, options: Options, run: AuditRun) -> FileReport:
     """Audit one file into ``run``; a file that cannot be used is reported in
     its FileReport's ``error``, never raised. A spreadsheet's lock file is
     passed over with a note."""
-    from .precheck import precheck
+    from .precheck import inspect
 
     p = Path(path)
     report = FileReport(str(path))
@@ -256,9 +286,18 @@ def audit_file(path: str | Path, options: Options, run: AuditRun) -> FileReport:
         report.skipped = lock
         return report
     try:
-        report.kind = precheck(p)
-        if report.kind == "text":
+        checked = inspect(p)
+        report.kind = checked.kind
+        if checked.kind == "text":
             _audit_text(p, report, options, run)
+        elif checked.kind == "ods":
+            from .ods import open_ods
+
+            book = open_ods(p, checked.facts)
+            try:
+                _audit_book(book, p, report, options, run)
+            finally:
+                book.close()
         else:
             _audit_workbook(p, report, options, run)
     except UnusableFile as exc:
@@ -296,9 +335,9 @@ def _mass_cells(decimal_comma: bool):
 
 
 def _audit_text(path: Path, report: FileReport, options: Options, run: AuditRun) -> None:
-    from .text import read_text_table
+    from .text import open_text_table
 
-    table = read_text_table(path, encoding=options.encoding, delimiter=options.delimiter)
+    table = open_text_table(path, encoding=options.encoding, delimiter=options.delimiter)
     names = {",": "commas", ";": "semicolons", "\t": "tabs"}
     report.notes.append(
         f"read as {table.encoding}, fields separated by {names.get(table.delimiter, repr(table.delimiter))}"
@@ -307,20 +346,18 @@ def _audit_text(path: Path, report: FileReport, options: Options, run: AuditRun)
     report.notes.extend(n for n in table.notes if "decimal comma" not in n)
     sheet = SheetReport(str(path), "")
     report.sheets.append(sheet)
-    lines = table.line_numbers
-    index_of_line = {line: i for i, line in enumerate(lines)}
+    rows = table.rows()
     _audit_table(
         sheet,
-        iter(table.rows),
+        rows,
         options,
         run.findings,
         columns=sheet_columns(options.layout_options(), "", single_table=True),
-        numbers=lambda i: lines[i] if i < len(lines) else i + 1,
-        index_of=index_of_line.get,
         decimal_comma=table.decimal_comma,
-        total=len(table.rows),
         cell_filter=_mass_cells(table.decimal_comma),
+        gaps_are_rows=False,
     )
+    report.notes.extend(problem for _line, problem in rows.problems)
     if sheet.error:
         report.error = f"'{path.name}': {sheet.error}"
 
@@ -331,10 +368,19 @@ def tables_in(reader, names: Sequence[str], options: ColumnOptions) -> int:
     count = 0
     for name in names:
         columns = sheet_columns(options, name, single_table=False)
-        index = None if columns.header_row is None else columns.header_row - 1
-        head = list(islice(reader.rows(name), max(HEADER_SEARCH_ROWS, (index or 0) + 1)))
+        pairs = []
+        for pair in reader.rows(name):
+            pairs.append(pair)
+            if len(pairs) >= HEADER_SEARCH_ROWS and (
+                columns.header_row is None or pair[0] >= columns.header_row
+            ):
+                break
+        numbers = [n for n, _cells in pairs]
+        index = None
+        if columns.header_row is not None:
+            index = numbers.index(columns.header_row) if columns.header_row in numbers else len(pairs)
         try:
-            layout_of(head, columns, index)
+            layout_of([cells for _n, cells in pairs], columns, index)
         except LayoutError as exc:
             if exc.kind == NO_TABLE and index is None:
                 continue
@@ -345,9 +391,16 @@ def tables_in(reader, names: Sequence[str], options: ColumnOptions) -> int:
 
 
 def _audit_workbook(path: Path, report: FileReport, options: Options, run: AuditRun) -> None:
-    from .workbook import WorkbookReader, list_sheets
+    from .xlsx import Book
 
-    sheets = list_sheets(path)
+    with Book(path) as book:
+        _audit_book(book, path, report, options, run)
+
+
+def _audit_book(book, path: Path, report: FileReport, options: Options, run: AuditRun) -> None:
+    """The audit of every chosen sheet of an open workbook (any reader with
+    ``sheets`` and ``rows(name)``)."""
+    sheets = book.sheets
     hidden = [s.name for s in sheets if s.state != "visible"]
     if options.sheet is not None:
         chosen = [s for s in sheets if s.name == options.sheet]
@@ -360,43 +413,41 @@ def _audit_workbook(path: Path, report: FileReport, options: Options, run: Audit
         chosen = [s for s in sheets if s.state == "visible" or options.hidden]
         report.hidden = [] if options.hidden else hidden
     layout_options = options.layout_options()
-    with WorkbookReader(path) as reader:
-        names = set(reader.sheet_names)
-        readable = [info for info in chosen if info.name in names]  # not chartsheets or dialog sheets
-        single = (
-            options.sheet is not None
-            or len(readable) <= 1
-            or not layout_options.general
-            or tables_in(reader, [i.name for i in readable], layout_options) <= 1
+    single = (
+        options.sheet is not None
+        or len(chosen) <= 1
+        or not layout_options.general
+        or tables_in(book, [i.name for i in chosen], layout_options) <= 1
+    )
+    for info in chosen:
+        sheet = SheetReport(str(path), info.name)
+        report.sheets.append(sheet)
+        if info.state != "visible":
+            sheet.notes.append(f"sheet '{info.name}' is {info.state}")
+        rows = book.rows(info.name)
+        _audit_table(
+            sheet,
+            rows,
+            options,
+            run.findings,
+            columns=sheet_columns(layout_options, info.name, single),
         )
-        for info in readable:
-            sheet = SheetReport(str(path), info.name)
-            report.sheets.append(sheet)
-            if info.state != "visible":
-                sheet.notes.append(f"sheet '{info.name}' is {info.state}")
-            _audit_table(
-                sheet,
-                reader.rows(info.name),
-                options,
-                run.findings,
-                columns=sheet_columns(layout_options, info.name, single),
-            )
-            if sheet.no_roles:
-                sheet.summary.add_finding(WARNING, COLUMNS_CHECK)
-                run.findings.append(
-                    FindingRecord(
-                        str(path),
-                        info.name,
-                        sheet.header_row,
-                        "",
-                        COLUMNS_CHECK,
-                        WARNING,
-                        f"the sheet has a table but no column read as name or formula, so its lines were"
-                        f" not checked: {sheet.error}",
-                        f"--column '{info.name}:formula=LETTER'",
-                    )
+        if sheet.no_roles:
+            sheet.summary.add_finding(WARNING, COLUMNS_CHECK)
+            run.findings.append(
+                FindingRecord(
+                    str(path),
+                    info.name,
+                    sheet.header_row,
+                    "",
+                    COLUMNS_CHECK,
+                    WARNING,
+                    f"the sheet has a table but no column read as name or formula, so its lines were"
+                    f" not checked: {sheet.error}",
+                    f"--column '{info.name}:formula=LETTER'",
                 )
-            if getattr(reader, "truncated", False):
-                sheet.notes.append(f"columns beyond {column_letter(MAX_COLUMNS - 1)} were not read")
+            )
+        if getattr(rows, "truncated", False):
+            sheet.notes.append(f"columns beyond {column_letter(MAX_COLUMNS - 1)} were not read")
     if report.sheets and all(s.error for s in report.sheets):
         report.error = f"'{path.name}': " + "; ".join(f"sheet '{s.sheet}': {s.error}" for s in report.sheets)

@@ -16,79 +16,44 @@ the pre-checks refuse. After writing, the package is verified (see
 
 from __future__ import annotations
 
+import errno
 import tempfile
 import zipfile
 from collections import Counter
-from dataclasses import dataclass, field
 from pathlib import Path
 
-from ...audit import NO_SAVED_VALUE, NOT_RECALCULATED, STANDARD_WEIGHTS, _blank
+from ...audit import NO_SAVED_VALUE, NOT_RECALCULATED, _blank
 from ...columns import (
-    HEADER_SEARCH_ROWS,
-    NO_TABLE,
-    NOT_MATCHED,
-    ColumnOptions,
-    Layout,
-    LayoutError,
     column_letter,
 )
 from ...errors import CellchemError
-from ...fill import MASS, NUMBER, FillColumn, fill_line
+from ...fill import MASS, NUMBER, FillColumn
 from . import UnusableFile, one_line
-from .audit import lock_file_note, sheet_columns
+from .audit import lock_file_note
+from .fill_common import (  # noqa: F401  (FillOptions, FillReport, derived_output: the command line imports them here)
+    FillOptions,
+    FillReport,
+    _choose_sheet,
+    _fill_from_roles,
+    _same_heading,
+    derived_output,
+)
 from .ooxml import (
     MAIN_NS,
     MAX_SHEET_COLUMNS,
     NewCell,
     Styles,
     cell_value,
-    package_map,
     rewrite_sheet,
     scan_sheet,
-    shared_strings,
     verify,
     write_package,
 )
-from .reports import replace_atomically
+from .writer import output_error, write_atomically
+
+_OUTPUT_ERRNOS = {errno.ENOSPC, errno.EDQUOT, errno.EFBIG, errno.EROFS}
 
 _F = f"{{{MAIN_NS}}}f"
-
-
-@dataclass
-class FillReport:
-    """What a fill wrote."""
-
-    source: str
-    output: str = ""
-    sheet: str = ""
-    header_row: int = 0
-    columns: list[tuple[str, str]] = field(default_factory=list)  # (letter, header)
-    filled: int = 0
-    partly: int = 0  # lines filled only in the columns their name fixes
-    not_filled: Counter = field(default_factory=Counter)
-    kept_existing: int = 0
-    notes: list[str] = field(default_factory=list)
-
-
-@dataclass(frozen=True)
-class FillOptions:
-    columns: tuple[FillColumn, ...]
-    overrides: dict[str, str] = field(default_factory=dict)
-    sheet: str | None = None
-    overwrite: bool = False
-    mass_allowance: float | None = None
-    column_options: ColumnOptions | None = None  # --column [SHEET:]... and --header-row [SHEET:]N
-    weights: str = STANDARD_WEIGHTS
-
-    def layout_options(self) -> ColumnOptions:
-        if self.column_options is not None:
-            return self.column_options
-        return ColumnOptions(general=dict(self.overrides))
-
-
-def derived_output(path: Path, word: str = "filled") -> Path:
-    """``stock.xlsx`` -> ``stock-filled.xlsx`` beside it."""
-    return path.with_name(f"{path.stem}-{word}{path.suffix}")
 
 
 def _widths(column: FillColumn) -> float:
@@ -104,7 +69,7 @@ def fill_file(
     """Fill ``path`` into a new file ``out``; ``extra_sheet`` (title, rows)
     adds a sheet of plain cells to a workbook. Raises UnusableFile when
     nothing could be written."""
-    from .precheck import precheck
+    from .precheck import inspect
 
     src = Path(path)
     dst = Path(out)
@@ -116,7 +81,8 @@ def fill_file(
             raise UnusableFile(f"the output '{dst}' is the input; cellchem never writes the input file")
     except OSError:
         pass
-    kind = precheck(src)
+    checked = inspect(src)
+    kind = checked.kind
     if kind == "text":
         from .fill_text import fill_text
 
@@ -127,6 +93,10 @@ def fill_file(
             " stays .xlsm)"
         )
     try:
+        if kind == "ods":
+            from .fill_ods import fill_ods
+
+            return fill_ods(src, dst, options, extra_sheet, facts=checked.facts)
         return _fill_workbook(src, dst, options, extra_sheet)
     except (UnusableFile, CellchemError):
         raise
@@ -134,6 +104,10 @@ def fill_file(
         raise UnusableFile(
             f"'{src.name}' needs more memory than this machine has; nothing was written"
         ) from None
+    except OSError as exc:
+        if exc.errno in _OUTPUT_ERRNOS:  # the disk or folder the output goes to (or the temporary space)
+            raise output_error(dst, exc) from None
+        raise UnusableFile(f"'{src.name}' could not be read ({one_line(exc)}); nothing was written") from None
     except (
         Exception
     ) as exc:  # a damaged part found while streaming (bad XML, a bad CRC): refuse, write nothing
@@ -148,83 +122,16 @@ def fill_file(
 # ---------------------------------------------------------------------------
 
 
-def _layout(head, columns, header_index: int | None) -> Layout:
-    from .audit import layout_of
-
-    return layout_of(head, columns, header_index)
-
-
-def _choose_sheet(
-    src: Path, options: FillOptions, zin, pmap, strings, report: FillReport
-) -> tuple[object, Layout]:
-    from .ooxml import first_rows
-
-    sheets = pmap.sheets
-    wanted = (
-        [s for s in sheets if s.name == options.sheet]
-        if options.sheet
-        else [s for s in sheets if s.state == "visible"]
-    )
-    if options.sheet and not wanted:
-        raise UnusableFile(
-            f"'{src.name}' has no sheet named '{options.sheet}'; its sheets are: "
-            + ", ".join(repr(s.name) for s in sheets)
-        )
-    layout_options = options.layout_options()
-    heads = {}
-    for sheet in wanted:
-        _specific, _general, header_row = layout_options.for_sheet(sheet.name)
-        heads[sheet.name] = (
-            first_rows(zin, sheet.part, strings, max(HEADER_SEARCH_ROWS, header_row or 0)),
-            header_row,
-        )
-    single = bool(options.sheet) or len(wanted) <= 1 or not layout_options.general
-    if not single:
-        tables = 0
-        for sheet in wanted:
-            head, header_row = heads[sheet.name]
-            try:
-                _layout(
-                    head,
-                    sheet_columns(layout_options, sheet.name, False),
-                    None if header_row is None else header_row - 1,
-                )
-            except LayoutError as exc:
-                if exc.kind == NO_TABLE and header_row is None:
-                    continue
-            except CellchemError:
-                pass
-            tables += 1
-        single = tables <= 1
-    errors = []
-    for sheet in wanted:
-        head, header_row = heads[sheet.name]
-        columns = sheet_columns(layout_options, sheet.name, single)
-        index = None if header_row is None else header_row - 1
-        try:
-            return sheet, _layout(head, columns, index)
-        except LayoutError as exc:
-            if exc.kind == NOT_MATCHED and exc.general:
-                report.notes.append(
-                    f"sheet '{sheet.name}' not filled, the columns given do not match it: {exc}"
-                )
-            errors.append(f"sheet '{sheet.name}': {exc}")
-        except CellchemError as exc:
-            raise UnusableFile(f"'{src.name}', sheet '{sheet.name}': {exc}") from None
-    raise UnusableFile(
-        f"'{src.name}': nothing was written: fill needs a table with a name or formula column"
-        f" ({'; '.join(errors) or 'no sheets'})"
-    )
-
-
 def _fill_workbook(
     src: Path, dst: Path, options: FillOptions, extra_sheet: tuple[str, list[list[object]]] | None = None
 ) -> FillReport:
+    from .xlsx import Book
+
     report = FillReport(str(src))
-    with zipfile.ZipFile(src) as zin:
-        pmap = package_map(zin)
-        strings = shared_strings(zin, pmap.shared_strings)
-        sheet, layout = _choose_sheet(src, options, zin, pmap, strings, report)
+    with Book(src) as book:
+        zin = book.zin
+        pmap = book.map
+        sheet, layout = _choose_sheet(src, options, book, report)
         report.sheet = sheet.name
         header_row = layout.header_index + 1
         report.header_row = header_row
@@ -284,30 +191,28 @@ def _fill_workbook(
             except ValueError:
                 return None
 
+        made: dict[tuple[int | None, str], int | None] = {}
+
         def number_style(base: int | None, kind: str) -> int | None:
             if styles.root is None:
                 return base
-            return styles.with_number_format(base or 0, 2 if kind == MASS else 0)
+            key = (base, kind)
+            if key not in made:
+                made[key] = styles.with_number_format(base or 0, 2 if kind == MASS else 0)
+            return made[key]
 
-        def hook(number: int, cells) -> list[NewCell]:
+        def new_cells(number: int, value_at, style_at, others_of) -> list[NewCell]:
             if number < header_row:
                 return []
             if number == header_row:
-                header_style[0] = style_of(cells, last_heading)
+                header_style[0] = style_at(last_heading)
                 return [NewCell(i, c.header, header_style[0]) for c, i, new in targets if new]
-            values = {
-                role: _value_of(cells[index], strings, pmap.recalculate) if index in cells else None
-                for role, index in roles.items()
-            }
+            values = {role: value_at(index) for role, index in roles.items()}
             if all(_blank(v) for v in values.values()):
                 return []
-            others = None
-            if degraded:
-                others = [
-                    cell_value(c, strings) for i, c in cells.items() if i not in role_columns and i not in own
-                ]
+            others = others_of() if degraded else None
             line = _fill_from_roles(values, options, report, None, others)
-            base = style_of(cells, last_heading)
+            base = style_at(last_heading)
             out = []
             for (column, index, _new), value in zip(targets, line.values):
                 if value is None:
@@ -316,11 +221,58 @@ def _fill_workbook(
                 out.append(NewCell(index, value, style, options.overwrite))
             return out
 
+        strings = book.strings
+
+        def hook(number: int, cells) -> list[NewCell]:
+            """For the element-by-element rewrite: cells are ``<c>`` elements."""
+            return new_cells(
+                number,
+                lambda i: _value_of(cells[i], strings, pmap.recalculate) if i in cells else None,
+                lambda i: style_of(cells, i),
+                lambda: [
+                    cell_value(c, strings) for i, c in cells.items() if i not in role_columns and i not in own
+                ],
+            )
+
+        def splice_hook(number: int, values: list[object], row_styles: dict[int, int]) -> list[NewCell]:
+            """For the splice: values as the audit's reader reads them."""
+            return new_cells(
+                number,
+                lambda i: values[i] if i < len(values) else None,
+                lambda i: row_styles[i] if row_styles.get(i, -1) >= 0 else None,
+                lambda: [v for i, v in enumerate(values) if i not in role_columns and i not in own],
+            )
+
         widths = [(i, _widths(c)) for c, i, new in targets if new and not _covered(scan.col_ranges, i)]
         last = max([scan.max_column] + [i for _c, i, _n in targets])
         with tempfile.TemporaryFile() as sheet_tmp:
-            result = rewrite_sheet(zin, sheet.part, sheet_tmp, hook, widths, last)
-            report.kept_existing = result.skipped_existing
+            edits = None
+            overwritten: frozenset[str] = frozenset()
+            if all(new for _c, _i, new in targets):
+                from .xlsx_splice import NeedsRewrite, splice_sheet
+
+                counts = (report.filled, report.partly, Counter(report.not_filled))
+                try:
+                    spliced = splice_sheet(
+                        book,
+                        sheet.part,
+                        sheet_tmp,
+                        splice_hook,
+                        None if degraded else frozenset(role_columns),
+                        frozenset({last_heading}),
+                        widths,
+                        last,
+                        start,
+                    )
+                    edits = spliced.edits
+                except NeedsRewrite:
+                    report.filled, report.partly, report.not_filled = counts
+                    sheet_tmp.seek(0)
+                    sheet_tmp.truncate()
+            if edits is None:
+                result = rewrite_sheet(zin, sheet.part, sheet_tmp, hook, widths, last)
+                report.kept_existing = result.skipped_existing
+                overwritten = frozenset(result.overwritten)
 
             def copy_sheet(out_fh) -> None:
                 sheet_tmp.seek(0)
@@ -343,7 +295,7 @@ def _fill_workbook(
                 replacements[pmap.styles] = lambda fh: fh.write(styles_data)
                 changed.add(pmap.styles)
             _write_verified(
-                zin, dst, replacements, changed, sheet.part, frozenset(result.overwritten), additions or None
+                zin, dst, replacements, changed, sheet.part, overwritten, additions or None, edits
             )
     report.output = str(dst)
     return report
@@ -360,50 +312,28 @@ def _value_of(c, strings: list[str], recalculate: bool) -> object:
     return NOT_RECALCULATED if recalculate else value
 
 
-def _fill_from_roles(
-    values: dict,
-    options: FillOptions,
-    report: FillReport,
-    decimal_comma: bool | None,
-    others: list[object] | None = None,
-):
-    """fill_line over a row's cells by role, counted in the report; ``others``:
-    the row's cells of no role, when the formula or name column is not known."""
-    line = fill_line(
-        options.columns,
-        values.get("formula"),
-        values.get("name"),
-        values.get("molar_mass"),
-        values.get("cas"),
-        values.get("concentration"),
-        values.get("unit"),
-        others=tuple(others or ()),
-        mass_allowance=options.mass_allowance,
-        decimal_comma=decimal_comma,
-        weights=options.weights,
-    )
-    if line.filled:
-        report.filled += 1
-        if line.partly:
-            report.partly += 1
-    else:
-        report.not_filled[line.verdict.split(":", 1)[0] if line.verdict else "not read"] += 1
-    return line
-
-
-def _same_heading(text: str) -> str:
-    """A heading compared exactly, but for case and spaces ('Formula (canonical)' is not 'Formula')."""
-    return " ".join(str(text).split()).casefold()
-
-
 def _covered(ranges: list[tuple[int, int]], index: int) -> bool:
     return any(lo <= index <= hi for lo, hi in ranges)
 
 
-def _write_verified(zin, dst: Path, replacements, changed, sheet_part, overwritten, additions=None) -> None:
-    def write(tmp: Path) -> None:
-        write_package(zin, str(tmp), replacements, additions)
-        with zipfile.ZipFile(tmp) as zcheck:
-            verify(zin, zcheck, changed, sheet_part, set(additions or {}), overwritten)
+def _write_verified(
+    zin, dst: Path, replacements, changed, sheet_part, overwritten, additions=None, edits=None
+) -> None:
+    """Write the package, check it and move it into place. ``edits``: the
+    splice's record of what it changed in the sheet part, which is then
+    checked byte for byte instead of cell by cell."""
 
-    replace_atomically(dst, write)
+    def write(fh) -> None:
+        write_package(zin, fh, replacements, additions)
+        fh.flush()
+        fh.seek(0)
+        with zipfile.ZipFile(fh) as zcheck:
+            if edits is None:
+                verify(zin, zcheck, changed, sheet_part, set(additions or {}), overwritten)
+            else:
+                from .xlsx_splice import verify_splice
+
+                verify(zin, zcheck, changed, None, set(additions or {}), overwritten)
+                verify_splice(zin, zcheck, sheet_part, edits)
+
+    write_atomically(dst, write)

@@ -212,6 +212,7 @@ def _range(ref: str) -> tuple[int, int, int, int] | None:
 
 _SCAN_CELL = re.compile(rb"<(?:[A-Za-z0-9_]+:)?c\b([^>]*)>|<(?:[A-Za-z0-9_]+:)?c\s*/>")
 _SCAN_REF = re.compile(rb'\sr="([A-Z]{1,3})[0-9]+"')
+_SCAN_KEYED = re.compile(rb'<(?:[A-Za-z0-9_]+:)?c\b[^>]*?\sr="([A-Z]{1,3})[0-9]+"')
 _SCAN_MERGE = re.compile(rb'<(?:[A-Za-z0-9_]+:)?mergeCell\b[^>]*\sref="([^"]+)"')
 _SCAN_PROTECTION = re.compile(rb"<(?:[A-Za-z0-9_]+:)?sheetProtection\b([^>]*)>")
 _SCAN_COL = re.compile(rb"<(?:[A-Za-z0-9_]+:)?col\b([^>]*)>")
@@ -233,13 +234,11 @@ def scan_sheet(zin: zipfile.ZipFile, part: str) -> SheetScan:
             data = tail + chunk
             cut = data.rfind(b">") + 1
             body, tail = data[:cut], data[cut:]
-            for m in _SCAN_CELL.finditer(body):
-                attrs = m.group(1)
-                ref = _SCAN_REF.search(attrs) if attrs is not None else None
-                if ref is None:
-                    exact = False
-                    continue
-                column = _letters_index(ref.group(1).decode())
+            keyed = _SCAN_KEYED.findall(body)  # the column letters of every cell with a reference
+            if len(keyed) != len(_SCAN_CELL.findall(body)):
+                exact = False
+            for letters in set(keyed):
+                column = _letters_index(letters.decode())
                 if column > scan.max_column:
                     scan.max_column = column
             for m in _SCAN_MERGE.finditer(body):
@@ -514,6 +513,7 @@ RowHook = Callable[[int, dict[int, etree._Element]], list[NewCell]]
 @dataclass
 class RewriteResult:
     rows: int = 0
+    last_row: int = 0  # the number of the last row read
     cells_written: int = 0
     skipped_existing: int = 0
     overwritten: set[str] = field(default_factory=set)  # refs of cells whose value was replaced
@@ -634,6 +634,9 @@ def _process_row(row: etree._Element, hook: RowHook, result: RewriteResult) -> N
         number = int(row.get("r", "0"))
     except ValueError:
         number = 0
+    if number <= result.last_row:  # a row written without its number (valid) follows the one before
+        number = result.last_row + 1
+    result.last_row = number
     cells: dict[int, etree._Element] = {}
     column = -1
     for c in row.iter(_C):
@@ -680,7 +683,7 @@ def _process_row(row: etree._Element, hook: RowHook, result: RewriteResult) -> N
 
 def write_package(
     zin: zipfile.ZipFile,
-    out_path: str,
+    out_path: str | IO[bytes],
     replacements: dict[str, Callable[[IO[bytes]], None]],
     additions: dict[str, bytes] | None = None,
 ) -> None:

@@ -32,19 +32,23 @@ import zipfile
 import zlib
 from collections.abc import Iterator
 from contextlib import contextmanager
+from dataclasses import dataclass
 from typing import IO, Any, NamedTuple
 
 from . import (
     ABSURD_CELLS_PER_BYTE,
     ABSURD_MIN_CELLS,
+    MAX_INFLATION_RATIO,
     MAX_MEMBERS,
     MAX_PACKAGE_BYTES,
     MAX_PART_BYTES,
+    MAX_RATIO_FROM_BYTES,
     MAX_TEXT_BYTES,
     UnusableFile,
 )
 
 _WORKBOOK_EXTENSIONS = (".xlsx", ".xlsm")
+_OPENDOCUMENT_EXTENSIONS = (".ods",)
 _TEXT_EXTENSIONS = (".csv", ".txt")
 _OTHER_FORMATS = {
     ".xls": "is in the legacy Excel format (.xls), which cellchem does not read: save it as .xlsx"
@@ -53,8 +57,8 @@ _OTHER_FORMATS = {
     ".xlsb": "is a binary workbook (.xlsb), which cellchem does not read: save it as .xlsx",
     ".xltx": "is a workbook template (.xltx), which cellchem does not read: save it as .xlsx",
     ".xltm": "is a workbook template (.xltm), which cellchem does not read: save it as .xlsx or .xlsm",
-    ".ods": "is an OpenDocument spreadsheet (.ods), which cellchem does not read:"
-    " save as .xlsx or export CSV",
+    ".ots": "is an OpenDocument template (.ots), which cellchem does not read: save it as .ods",
+    ".fods": "is a flat OpenDocument spreadsheet (.fods), which cellchem does not read: save it as .ods",
     ".numbers": "is an Apple Numbers document, which cellchem does not read: export it as .xlsx or CSV",
 }
 
@@ -105,16 +109,12 @@ class _Sheet(NamedTuple):
 
 
 def require_defusedxml() -> None:
-    """Make sure workbooks will be parsed with defusedxml.
-
-    openpyxl parses XML with defusedxml (which refuses entity declarations and
-    external references) only when defusedxml is importable and the variable
-    ``OPENPYXL_DEFUSEDXML`` does not turn it off; it records the choice in
-    ``openpyxl.xml.DEFUSEDXML``.
+    """Make sure workbooks will be parsed safely: the pre-checks parse with
+    defusedxml, and the readers refuse what it refuses with its exception
+    classes.
 
     Raises:
-        UnusableFile: defusedxml or openpyxl is not installed, or openpyxl does
-            not use defusedxml. The message names no file.
+        UnusableFile: defusedxml is not installed. The message names no file.
 
     Example:
         >>> require_defusedxml()  # doctest: +SKIP
@@ -125,22 +125,16 @@ def require_defusedxml() -> None:
         raise UnusableFile(
             f"reading workbooks safely needs defusedxml, which is not installed: {_INSTALL}"
         ) from None
-    try:
-        import openpyxl.xml
-    except ImportError:
-        raise UnusableFile(f"reading workbooks needs openpyxl, which is not installed: {_INSTALL}") from None
-    if openpyxl.xml.DEFUSEDXML is not True:
-        raise UnusableFile(
-            "openpyxl is not using defusedxml (openpyxl.xml.DEFUSEDXML is False, so the variable"
-            " OPENPYXL_DEFUSEDXML is set to something other than True): unset OPENPYXL_DEFUSEDXML"
-        )
 
 
 def precheck(path: str | os.PathLike[str]) -> str:
     r"""Check a file before any parsing, and say which reader it needs.
 
     The file must be a regular, readable, non-empty file named .xlsx or .xlsm
-    (a workbook) or .csv or .txt (a text export). A workbook must be a sound
+    (a workbook), .ods (an OpenDocument spreadsheet) or .csv or .txt (a text
+    export). No part of a package may inflate more than
+    ``MAX_INFLATION_RATIO`` to 1 once it declares over
+    ``MAX_RATIO_FROM_BYTES``. A workbook must be a sound
     zip package (no duplicate, encrypted or escaping parts, declared sizes
     within ``MAX_PART_BYTES`` each and ``MAX_PACKAGE_BYTES`` in all, at most
     ``MAX_MEMBERS`` parts) holding a transitional SpreadsheetML workbook with
@@ -154,8 +148,8 @@ def precheck(path: str | os.PathLike[str]) -> str:
         path: the file to check.
 
     Returns:
-        'xlsx' for a workbook (.xlsx or .xlsm), 'text' for a text export
-        (.csv or .txt).
+        'xlsx' for a workbook (.xlsx or .xlsm), 'ods' for an OpenDocument
+        spreadsheet, 'text' for a text export (.csv or .txt).
 
     Raises:
         UnusableFile: the file cannot or will not be read; the message is one
@@ -177,17 +171,38 @@ def precheck(path: str | os.PathLike[str]) -> str:
         cellchem.errors.UnusableFile: '...stock.xls' is in the legacy Excel format (.xls), ...
         >>> folder.cleanup()
     """
+    return inspect(path).kind
+
+
+@dataclass(frozen=True)
+class Checked:
+    """What the pre-check learned, so that the reader does not learn it again."""
+
+    kind: str  # 'xlsx' (.xlsx, .xlsm), 'ods' or 'text'
+    sheets: tuple[tuple[str, str], ...] = ()  # a workbook's (sheet name, state) in workbook order
+    facts: Any = None  # what the OpenDocument checks learned (``ods.check_ods``)
+
+
+def inspect(path: str | os.PathLike[str]) -> Checked:
+    """``precheck``, returning what it learned: the kind of file and a
+    workbook's sheets with their visibility."""
     shown = _shown(path)
     with _open_file(path, shown) as (fh, size):
         kind = _kind(path, shown)
         if kind == "text":
             _check_text(fh, size, shown)
-            return "text"
+            return Checked("text")
         try:
             require_defusedxml()
         except UnusableFile as exc:
             raise _refuse(shown, f"cannot be checked: {exc}") from None
         with _open_package(fh, size, shown) as zf:
+            if kind == "ods":
+                from .ods import check_ods
+
+                _check_doctypes(zf, shown)
+                facts = check_ods(zf, shown)
+                return Checked("ods", tuple((sheet.name, sheet.state) for sheet in facts.sheets), facts)
             book = _workbook_part(zf, shown)
             sheets = _read_sheets(zf, book, shown)
             if not sheets:
@@ -202,7 +217,7 @@ def precheck(path: str | os.PathLike[str]) -> str:
                 )
             _check_used_ranges(zf, book, sheets, shown)
             _check_doctypes(zf, shown)
-    return "xlsx"
+    return Checked("xlsx", tuple((sheet.name, sheet.state) for sheet in sheets))
 
 
 _PROLOG_BYTES = 65536
@@ -326,6 +341,8 @@ def _kind(path: str | os.PathLike[str], shown: str) -> str:
     extension = os.path.splitext(os.path.basename(os.fsdecode(os.fspath(path))))[1].lower()
     if extension in _WORKBOOK_EXTENSIONS:
         return "xlsx"
+    if extension in _OPENDOCUMENT_EXTENSIONS:
+        return "ods"
     if extension in _TEXT_EXTENSIONS:
         return "text"
     if extension in _OTHER_FORMATS:
@@ -334,12 +351,12 @@ def _kind(path: str | os.PathLike[str], shown: str) -> str:
         raise _refuse(
             shown,
             "has no file extension, so cellchem cannot tell a workbook from a text export: name it .xlsx"
-            " or .xlsm if it is a workbook, .csv or .txt if it is text",
+            ", .xlsm or .ods if it is a workbook, .csv or .txt if it is text",
         )
     raise _refuse(
         shown,
         f"has the extension '{extension}', which cellchem does not read: cellchem reads workbooks"
-        " (.xlsx, .xlsm) and text exports (.csv, .txt)",
+        " (.xlsx, .xlsm, .ods) and text exports (.csv, .txt)",
     )
 
 
@@ -560,6 +577,17 @@ def _check_members(zf: zipfile.ZipFile, shown: str) -> None:
                 f"holds the part '{name}' declaring {info.file_size:,} bytes uncompressed, over cellchem's"
                 f" limit of {MAX_PART_BYTES:,} bytes for one part: split the data over smaller workbooks"
                 " or export the sheet as CSV",
+            )
+        if info.file_size > MAX_RATIO_FROM_BYTES and info.file_size > MAX_INFLATION_RATIO * max(
+            info.compress_size, 1
+        ):
+            raise _refuse(
+                shown,
+                f"holds the part '{name}' that inflates from {info.compress_size:,} to {info.file_size:,}"
+                f" bytes ({info.file_size // max(info.compress_size, 1):,} to 1), far beyond what cells of"
+                f" data compress to (a zip bomb, or millions of empty formatted cells): cellchem refuses"
+                f" parts over {MAX_RATIO_FROM_BYTES >> 20} MiB that inflate more than"
+                f" {MAX_INFLATION_RATIO} to 1; {_RESAVE}, or export the sheet as CSV",
             )
         total += info.file_size
     if total > MAX_PACKAGE_BYTES:

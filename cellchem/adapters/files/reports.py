@@ -10,13 +10,13 @@ cell is stored as text (never as a formula). JSON is data and is written as is.
 from __future__ import annotations
 
 import csv
+import io
 import json
-import os
-import stat
-import tempfile
 from collections.abc import Callable, Sequence
 from dataclasses import asdict, dataclass
 from pathlib import Path
+
+from .writer import write_atomically
 
 FIELDS = ("file", "sheet", "row", "column", "check", "severity", "message", "suggestion")
 _RISKY = ("=", "+", "-", "@", "\t", "\r")
@@ -48,77 +48,52 @@ def defuse(text: str) -> str:
     return text
 
 
-def _umask() -> int:
-    """The process's file-creation mask, read without changing it where the
-    system shows it (Linux), else set and restored at once."""
-    try:
-        with open("/proc/self/status", encoding="ascii", errors="replace") as fh:
-            for line in fh:
-                if line.startswith("Umask:"):
-                    return int(line.split()[1], 8)
-    except (OSError, ValueError, IndexError):
-        pass
-    mask = os.umask(0o022)
-    os.umask(mask)
-    return mask
-
-
-def new_file_mode(path: str | Path) -> int:
-    """The permissions an output file gets: those of the file it replaces, or
-    for a new file what the user's umask gives a file any program creates
-    (0o666 less the mask; a temporary file would be owner-only)."""
-    try:
-        return stat.S_IMODE(os.stat(path).st_mode)
-    except OSError:
-        return 0o666 & ~_umask()
-
-
 def replace_atomically(path: str | Path, write: Callable[[Path], None]) -> None:
-    """Write to a temporary file beside ``path`` with ``write(temporary path)``,
-    give it the permissions of ``new_file_mode``, then move it into place; on
-    any failure the temporary file is removed and ``path`` is left as it was."""
+    """For a writer that needs a path: ``write(temporary path)`` in the
+    output's folder, then ``write_atomically``'s promises. Prefer
+    ``write_atomically`` with a file object."""
+    import shutil
+    import tempfile
+
     path = Path(path)
-    mode = new_file_mode(path)
-    fd, tmp = tempfile.mkstemp(prefix=".cellchem-", suffix=path.suffix, dir=path.parent or ".")
-    os.close(fd)
-    try:
-        write(Path(tmp))
-        try:
-            os.chmod(tmp, mode)
-        except OSError:  # a file system without Unix permissions: its own rules apply
-            pass
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+    with tempfile.TemporaryDirectory(prefix=".cellchem-", dir=path.parent if str(path.parent) else ".") as d:
+        tmp = Path(d) / ("part" + path.suffix)
+        write(tmp)
 
+        def copy(fh) -> None:
+            with tmp.open("rb") as src:
+                shutil.copyfileobj(src, fh, 1 << 20)
 
-_replace = replace_atomically
+        write_atomically(path, copy)
 
 
 def write_json(path: str | Path, records: Sequence[FindingRecord]) -> None:
     """A JSON list of findings, each an object with the keys of FIELDS."""
 
-    def write(tmp: Path) -> None:
-        with tmp.open("w", encoding="utf-8") as fh:
-            json.dump([asdict(r) for r in records], fh, ensure_ascii=False, indent=1)
-            fh.write("\n")
+    def write(raw) -> None:
+        fh = io.TextIOWrapper(raw, encoding="utf-8")
+        json.dump([asdict(r) for r in records], fh, ensure_ascii=False, indent=1)
+        fh.write("\n")
+        fh.flush()
+        fh.detach()  # the writer closes the file
 
-    _replace(Path(path), write)
+    write_atomically(Path(path), write)
 
 
 def write_csv(path: str | Path, records: Sequence[FindingRecord]) -> None:
     """A UTF-8 CSV with a BOM (so spreadsheet programs read it as UTF-8), one
     finding a row, text fields defused."""
 
-    def write(tmp: Path) -> None:
-        with tmp.open("w", encoding="utf-8-sig", newline="") as fh:
-            w = csv.writer(fh)
-            w.writerow(FIELDS)
-            for r in records:
-                w.writerow([defuse(v) if isinstance(v, str) else v for v in (getattr(r, f) for f in FIELDS)])
+    def write(raw) -> None:
+        fh = io.TextIOWrapper(raw, encoding="utf-8-sig", newline="")
+        w = csv.writer(fh)
+        w.writerow(FIELDS)
+        for r in records:
+            w.writerow([defuse(v) if isinstance(v, str) else v for v in (getattr(r, f) for f in FIELDS)])
+        fh.flush()
+        fh.detach()  # the writer closes the file
 
-    _replace(Path(path), write)
+    write_atomically(Path(path), write)
 
 
 def _text_cell(ws, row: int, col: int, value: object):
@@ -201,4 +176,4 @@ def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_r
     summary.freeze_panes = "A2"
     for_print(summary)
 
-    _replace(Path(path), lambda tmp: wb.save(tmp))
+    write_atomically(Path(path), wb.save)

@@ -5,7 +5,7 @@ Each function takes cell values as a spreadsheet layer hands them over
 numbers), converts them with ``cells``, calls the core and converts the
 answer back. No chemistry lives here. ``FUNCTIONS`` describes every function
 (arguments with a one-line description and unit, the result, an example) for
-the Excel layer (``xlwings_udfs``), for README's table and for the function
+the Excel layer (``excel``, generated from it), for README's table and for the function
 wizard of other spreadsheet programs.
 """
 
