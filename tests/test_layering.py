@@ -191,3 +191,17 @@ def test_the_core_imports_no_adapter_and_not_the_command_line():
         if not outside_core(name) and any(outside_core(t) for t in targets)
     }
     assert not wrong, f"core modules importing the command line or an adapter: {wrong}"
+
+
+def test_every_package_is_installed():
+    """A wheel holds only the packages pyproject.toml lists: every folder of
+    the package with an __init__.py must be among them."""
+    import tomllib
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[1]
+    listed = set(tomllib.loads((root / "pyproject.toml").read_text())["tool"]["setuptools"]["packages"])
+    found = {
+        ".".join(init.parent.relative_to(root).parts) for init in (root / "cellchem").rglob("__init__.py")
+    }
+    assert found <= listed, sorted(found - listed)
