@@ -23,8 +23,10 @@ falls back to ``ooxml.rewrite_sheet``.
 from __future__ import annotations
 
 import re
+import struct
+import tempfile
 import zipfile
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
 from typing import IO
 from xml.parsers import expat
@@ -49,12 +51,37 @@ class Edit:
     data: bytes
 
 
+class EditLog:
+    """The splice's edits, in order, spooled to a temporary file so that
+    memory does not grow with the rows (one edit per filled row)."""
+
+    _HEAD = struct.Struct("<QQI")
+
+    def __init__(self) -> None:
+        self._file = tempfile.TemporaryFile()
+        self.count = 0
+
+    def append(self, edit: Edit) -> None:
+        self._file.write(self._HEAD.pack(edit.start, edit.end, len(edit.data)) + edit.data)
+        self.count += 1
+
+    def __iter__(self) -> Iterator[Edit]:
+        self._file.flush()
+        self._file.seek(0)
+        for _ in range(self.count):
+            start, end, size = self._HEAD.unpack(self._file.read(self._HEAD.size))
+            yield Edit(start, end, self._file.read(size))
+
+    def close(self) -> None:
+        self._file.close()
+
+
 @dataclass
 class SpliceResult:
     rows: int = 0
     cells_written: int = 0
     skipped_existing: int = 0
-    edits: list[Edit] = field(default_factory=list)
+    edits: EditLog = field(default_factory=EditLog)
     overwritten: set[str] = field(default_factory=set)
 
 
@@ -349,7 +376,7 @@ def splice_sheet(
     return result
 
 
-def verify_splice(src: zipfile.ZipFile, dst: zipfile.ZipFile, part: str, edits: list[Edit]) -> None:
+def verify_splice(src: zipfile.ZipFile, dst: zipfile.ZipFile, part: str, edits: EditLog | list[Edit]) -> None:
     """Raise UnusableFile unless the output part is the input part with
     exactly ``edits`` applied: every original byte outside the edits, and so
     every original cell, is unchanged."""
