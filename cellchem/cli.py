@@ -572,10 +572,10 @@ def build_parser() -> argparse.ArgumentParser:
 
     calc = sub.add_parser(
         "calc-extension",
-        help="build the LibreOffice extension that adds the CC_* worksheet functions to Calc",
+        help="build the LibreOffice extension that adds the worksheet functions to Calc",
         formatter_class=argparse.RawDescriptionHelpFormatter,
         description=(
-            "Build cellchem.oxt, a LibreOffice extension with the CC_* worksheet functions as a Calc\n"
+            "Build cellchem.oxt, a LibreOffice extension with the worksheet functions as a Calc\n"
             "add-in. Needs LibreOffice and its SDK's unoidl-write (Debian: libreoffice-calc-nogui,\n"
             "libreoffice-dev). Install the result with: unopkg add cellchem.oxt\n\n"
             "Example: cellchem calc-extension -o cellchem.oxt"
@@ -587,7 +587,56 @@ def build_parser() -> argparse.ArgumentParser:
         "--sdk", metavar="DIR", help="the SDK's directory or unoidl-write itself (default: found)"
     )
     calc.set_defaults(run=_cmd_calc_extension)
+
+    lite = sub.add_parser(
+        "excel-lite",
+        help="write main.py and requirements.txt for the worksheet functions in Excel through xlwings Lite",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+        description=(
+            "Write main.py, requirements.txt and HOW-TO.txt into a folder: what to paste into the\n"
+            "xlwings Lite add-in so that Excel (Windows, macOS, the web) has the worksheet functions\n"
+            "as =CELLCHEM.MOLAR_MASS(...) and the others, with no Python installed.\n\n"
+            "Example: cellchem excel-lite --wheel-url https://stores.example.org/py/"
+            f"cellchem-{__version__}-py3-none-any.whl"
+        ),
+    )
+    lite.add_argument(
+        "--wheel-url",
+        metavar="URL",
+        help="the https:// address where the cellchem wheel is hosted (default: cellchem by name, from PyPI)",
+    )
+    lite.add_argument(
+        "-o", "--output", metavar="DIR", default="cellchem-excel-lite", help="default cellchem-excel-lite"
+    )
+    lite.set_defaults(run=_cmd_excel_lite)
     return parser
+
+
+def _cmd_excel_lite(args: argparse.Namespace) -> int:
+    from .adapters.files.writer import write_atomically
+    from .adapters.sheets import lite
+
+    try:
+        texts = {
+            "main.py": lite.main_source(),
+            "requirements.txt": lite.requirements(args.wheel_url),
+            "HOW-TO.txt": lite.instructions(args.wheel_url),
+        }
+    except CellchemError as exc:
+        raise UsageError(str(exc)) from None
+    folder = Path(args.output)
+    existing = [name for name in texts if (folder / name).exists()]
+    if existing:
+        raise UsageError(f"'{folder}' already holds {', '.join(existing)}; remove them or name another -o")
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise OutputError(f"cannot make the folder '{folder}': {exc.strerror or exc}") from None
+    for name, text in texts.items():
+        write_atomically(folder / name, lambda fh, t=text: fh.write(t.encode("utf-8")))
+    print(f"wrote {folder / 'main.py'}, {folder / 'requirements.txt'} and {folder / 'HOW-TO.txt'}")
+    print(lite.instructions(args.wheel_url).split("\n\n", 2)[1])
+    return EXIT_CLEAN
 
 
 def _cmd_calc_extension(args: argparse.Namespace) -> int:

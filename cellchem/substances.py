@@ -17,7 +17,6 @@ and the table is never loaded into memory.
 
 from __future__ import annotations
 
-import sqlite3
 from dataclasses import dataclass
 from functools import cache, lru_cache
 from importlib import resources
@@ -83,7 +82,15 @@ def _count(n) -> str:
 
 
 @cache
-def _db() -> sqlite3.Connection:
+def _db():
+    """The table, opened read-only (sqlite3 is imported here: Pyodide ships it as a separate package)."""
+    try:
+        import sqlite3
+    except ImportError:
+        raise CellchemError(
+            "the substance table needs Python's sqlite3 module, which this Python lacks; in xlwings Lite, "
+            "add the line sqlite3 to requirements.txt"
+        ) from None
     path = resources.files("cellchem.data").joinpath(FILE)
     uri = f"file:{resources.as_file(path).__enter__()}?mode=ro&immutable=1"
     db = sqlite3.connect(uri, uri=True, check_same_thread=False)

@@ -44,4 +44,6 @@ def check_demo_values(cell):
     assert cell("B27") == pytest.approx(
         float(convert_concentration(37, "% w/w", "mol/L", "HCl", density=1.18))
     )
-    assert "unknown element symbol 'Xx'" in cell("B28")
+    # a refusal is the spreadsheet's own error value, and CELLCHEM.WHY gives the message
+    assert cell("B28") == "#VALUE!"
+    assert cell("B29") == "unknown element symbol 'Xx' at position 6 in 'NaCl2Xx'"

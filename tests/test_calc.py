@@ -1,4 +1,4 @@
-"""The CC_* worksheet functions in LibreOffice Calc, headless.
+"""The cellchem worksheet functions in LibreOffice Calc, headless.
 
 Builds the extension (``cellchem calc-extension``), installs it into a
 private LibreOffice profile with ``unopkg``, starts ``soffice --headless``
@@ -6,7 +6,8 @@ and drives it with ``tests/calc/driver.py`` (run by a Python that has
 LibreOffice's ``uno``). Every function is called in Calc, on single cells
 and on ranges, and each result is compared with what the same function
 gives through the Excel layer's calling convention (the core's answer,
-converted to what Calc shows: TRUE/FALSE as 1/0, empty as empty text).
+converted to what Calc shows: TRUE/FALSE as 1/0, empty as empty text, a
+refusal as Calc's own #VALUE! error).
 
 Without LibreOffice, its SDK and python3-uno these tests are skipped, unless
 CELLCHEM_CALC_TESTS=required (CI sets it), when they fail instead.
@@ -28,7 +29,7 @@ import pytest
 from cellchem.adapters.sheets import functions as sf
 from cellchem.adapters.sheets.calc import build as oxt
 from cellchem.adapters.sheets.calc.component import method_name, parameter_name
-from cellchem.adapters.sheets.cells import to_calc
+from cellchem.adapters.sheets.cells import CellError, to_calc
 
 ROOT = Path(__file__).resolve().parent.parent
 DRIVER = ROOT / "tests" / "calc" / "driver.py"
@@ -53,14 +54,15 @@ def test_configuration_names_every_function_and_argument():
     for name, spec in sf.FUNCTIONS.items():
         node = found[method_name(name)]
         props = {p.get(oor): p.find("value").text for p in node.findall("prop")}
-        assert props["DisplayName"] == name and props["CompatibilityName"] == name
+        # Calc's add-in names have no namespaces and lose anything up to a period: CELLCHEM_ joins it
+        assert props["DisplayName"] == props["CompatibilityName"] == "CELLCHEM_" + name
         assert props["Description"] == spec.summary
         params = node.find("node").findall("node")
         assert [p.get(oor) for p in params] == [parameter_name(a.name) for a in spec.arguments]
 
 
 def test_names_for_uno():
-    assert method_name("CC_MOLARMASS") == "ccMolarmass"
+    assert method_name("MOLAR_MASS") == "molarMass" and method_name("WHY") == "why"
     assert parameter_name("shelf_form") == "shelfForm" and parameter_name("formula") == "formula"
 
 
@@ -193,7 +195,7 @@ def test_bundle_runs_on_its_own(calc, tmp_path):
         "import sys; sys.path.insert(0, sys.argv[1]);"
         "from cellchem.adapters.sheets import functions as sf;"
         "import cellchem, pint; assert cellchem.__file__.startswith(sys.argv[1]), cellchem.__file__;"
-        "print(sf.cc_molarmass('CuSO4.5H2O'), sf.cc_grams('NaCl', '0.1 M', '1 L'))"
+        "print(sf.run('MOLAR_MASS', 'CuSO4.5H2O'), sf.run('GRAMS_TO_WEIGH', 'NaCl', '0.1 M', '1 L'))"
     )
     out = subprocess.run(
         [sys.executable, "-I", "-S", "-c", code, str(tmp_path / "pythonpath")],
@@ -209,49 +211,53 @@ def test_bundle_runs_on_its_own(calc, tmp_path):
 
 # One row per call: the function and its arguments (None: the cell is left empty).
 SINGLE = [
-    ("CC_FORMULA", ["ferric chloride"]),
-    ("CC_FORMULA", ["Copper(II) sulfate pentahydrate"]),
-    ("CC_FORMULA", ["unobtainium chloride"]),
-    ("CC_FORMULA", [None]),
-    ("CC_NAME", ["FeCl3", None]),
-    ("CC_NAME", ["FeCl3", "legacy"]),
-    ("CC_NAME", ["Al2(SO4)3", "american"]),
-    ("CC_SALT", ["Al3+", "sulfate"]),
-    ("CC_SALT", ["iron(III)", "O2-"]),
-    ("CC_MOLARMASS", ["CuSO4.5H2O"]),
-    ("CC_MOLARMASS", ["co Cl2"]),
-    ("CC_MOLARMASS", [None]),
-    ("CC_MASSFRACTION", ["CuSO4.5H2O", "Cu"]),
-    ("CC_NETCHARGE", ["SO4 2-"]),
-    ("CC_OXSTATE", ["KMnO4", "Mn"]),
-    ("CC_OXSTATE", ["Fe3O4", "Fe"]),
-    ("CC_BALANCED", ["NaCl2"]),
-    ("CC_BALANCED", ["NaCl"]),
-    ("CC_CHECKLINE", ["Sodium sulfite", "Na2SO4", None, None]),
-    ("CC_CHECKLINE", ["Sodium chloride", "NaCl", 58.44, "7647-14-5"]),
-    ("CC_CASVALID", ["7732-18-5"]),
-    ("CC_CASVALID", ["7732-18-6"]),
-    ("CC_SUBSTANCE", ["7758-99-8", "formula"]),
-    ("CC_SUBSTANCE", ["7647-14-5", "molar mass"]),
-    ("CC_SUBSTANCE", ["7732-18-5", None]),
-    ("CC_IONICSTRENGTH", ["MgCl2", 0.1]),
-    ("CC_IONICSTRENGTH", ["MgCl2", "10 mmol/L"]),
-    ("CC_ACTIVITY", ["Ca2+", 0.01, "extended", None]),
-    ("CC_ACTIVITY", ["Ca2+", 0.01, None, 37]),
-    ("CC_CONDUCTIVITY", ["KCl", 0.01, None]),
-    ("CC_CONDUCTIVITY", ["KCl", 0.01, 20]),
-    ("CC_GRAMS", ["CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O"]),
-    ("CC_GRAMS", ["NaCl", "0.5 M", 2, "99.5%", None]),
-    ("CC_GRAMS", ["NaCl", 0.1, 1, 99, None]),
-    ("CC_CONVERT", [37, "% w/w", "mol/L", "HCl", 1.18]),
-    ("CC_CONVERT", [0.1, "mol/L", "g/L", "NaCl", None]),
-    ("CC_FULLMESSAGE", ["plain text"]),
+    ("FORMULA", ["ferric chloride"]),
+    ("FORMULA", ["Copper(II) sulfate pentahydrate"]),
+    ("FORMULA", ["unobtainium chloride"]),
+    ("FORMULA", [None]),
+    ("NAME", ["FeCl3", None]),
+    ("NAME", ["FeCl3", "legacy"]),
+    ("NAME", ["Al2(SO4)3", "american"]),
+    ("SALT", ["Al3+", "sulfate"]),
+    ("SALT", ["iron(III)", "O2-"]),
+    ("MOLAR_MASS", ["CuSO4.5H2O"]),
+    ("MOLAR_MASS", ["co Cl2"]),
+    ("MOLAR_MASS", [None]),
+    ("MASS_FRACTION", ["CuSO4.5H2O", "Cu"]),
+    ("NET_CHARGE", ["SO4 2-"]),
+    ("OXIDATION_STATE", ["KMnO4", "Mn"]),
+    ("OXIDATION_STATE", ["Fe3O4", "Fe"]),
+    ("CHARGES_BALANCE", ["NaCl2"]),
+    ("CHARGES_BALANCE", ["NaCl"]),
+    ("CHECK_LINE", ["Sodium sulfite", "Na2SO4", None, None]),
+    ("CHECK_LINE", ["Sodium chloride", "NaCl", 58.44, "7647-14-5"]),
+    ("CAS_VALID", ["7732-18-5"]),
+    ("CAS_VALID", ["7732-18-6"]),
+    ("SUBSTANCE", ["7758-99-8", "formula"]),
+    ("SUBSTANCE", ["7647-14-5", "molar mass"]),
+    ("SUBSTANCE", ["7732-18-5", None]),
+    ("IONIC_STRENGTH", ["MgCl2", 0.1]),
+    ("IONIC_STRENGTH", ["MgCl2", "10 mmol/L"]),
+    ("ACTIVITY_COEFFICIENT", ["Ca2+", 0.01, "extended", None]),
+    ("ACTIVITY_COEFFICIENT", ["Ca2+", 0.01, None, 37]),
+    ("CONDUCTIVITY", ["KCl", 0.01, None]),
+    ("CONDUCTIVITY", ["KCl", 0.01, 20]),
+    ("GRAMS_TO_WEIGH", ["CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O"]),
+    ("GRAMS_TO_WEIGH", ["NaCl", "0.5 M", 2, "99.5%", None]),
+    ("GRAMS_TO_WEIGH", ["NaCl", 0.1, 1, 99, None]),
+    ("CONVERT_CONCENTRATION", [37, "% w/w", "mol/L", "HCl", 1.18]),
+    ("CONVERT_CONCENTRATION", [0.1, "mol/L", "g/L", "NaCl", None]),
+    ("WHY", ["MOLAR_MASS", "co Cl2", None, None, None, None]),
+    ("WHY", ["MOLAR_MASS", "CoCl2", None, None, None, None]),
+    ("WHY", ["GRAMS_TO_WEIGH", "NaCl", 0.1, 1, 99, None]),
 ]
-COLUMNS = "ABCDE"
+COLUMNS = "ABCDEF"
 
 
 def _calc_value(v):
-    """What Calc shows for a value: to_calc's cell, as the driver reports it."""
+    """What Calc shows for one cell of a result, as the driver reports it: a refusal as #VALUE!."""
+    if isinstance(v, CellError):
+        return ["error", "#VALUE!"]
     cell = to_calc(v)[0][0]
     return ["value", cell] if isinstance(cell, float) else ["text", cell]
 
@@ -274,7 +280,7 @@ def single(calc):
             refs.append(f"{col}{row}")  # the first one empty: a reference to an empty cell
             if value is not None:
                 cells.append([f"{col}{row}", value])
-        cells.append([f"G{row}", f"={name}({';'.join(refs)})"])
+        cells.append([f"G{row}", f"={sf.spelled(name, 'calc')}({';'.join(refs)})"])
         # the same call as the Excel layer makes it: empty cells as None
         expected[f"G{row}"] = _calc_value(sf.FUNCTIONS[name].implementation(*args))
     return calc.run({"cells": cells}), expected
@@ -288,7 +294,7 @@ def test_every_function_on_single_cells_matches_the_core(single, row):
 
 
 def test_every_function_is_called(single):
-    assert {name for name, _ in SINGLE} | {"CC_IONS", "CC_IONBALANCE"} == set(sf.FUNCTIONS)
+    assert {name for name, _ in SINGLE} | {"IONS", "ION_BALANCE"} == set(sf.FUNCTIONS)
 
 
 RANGE_INPUT = ["CuSO4.5H2O", "NaCl", None, "co Cl2", "Fe2(SO4)3"]
@@ -300,59 +306,79 @@ def test_ranges_in_arrays_out(calc):
     cells += [["C4", "Ca2+"], ["C5", "Mg2+"], ["C6", "HCO3-"], ["C7", "Cl-"]]
     cells += [["D4", 2.0], ["D5", 1.0], ["D6", 2.5], ["D7", 0.45]]
     arrays = [
-        ["F1:F5", "=CC_MOLARMASS(A1:A5)"],
-        ["G1:G5", "=CC_NAME(A1:A5)"],
-        ["H1:H5", "=CC_BALANCED(A1:A5)"],
-        ["I1:K2", '=CC_IONS("Al2(SO4)3")'],
-        ["I4:L4", "=CC_IONBALANCE(C4:C7;D4:D7)"],
+        ["F1:F5", "=CELLCHEM_MOLAR_MASS(A1:A5)"],
+        ["G1:G5", "=CELLCHEM_NAME(A1:A5)"],
+        ["H1:H5", "=CELLCHEM_CHARGES_BALANCE(A1:A5)"],
+        ["I1:K2", '=CELLCHEM_IONS("Al2(SO4)3")'],
+        ["I4:L4", "=CELLCHEM_ION_BALANCE(C4:C7;D4:D7)"],
     ]
-    cells += [["I6", "=CC_IONICSTRENGTH(C1:C2;D1:D2)"], ["I7", "=CC_CONDUCTIVITY(C1:C2;D1:D2)"]]
+    cells += [["I6", "=CELLCHEM_IONIC_STRENGTH(C1:C2;D1:D2)"], ["I7", "=CELLCHEM_CONDUCTIVITY(C1:C2;D1:D2)"]]
     got = calc.run({"cells": cells, "arrays": arrays})["cells"]
     column = [[v] for v in RANGE_INPUT]
     expect = {}
-    for col, fn in (("F", sf.cc_molarmass), ("G", sf.cc_name), ("H", sf.cc_balanced)):
-        for r, (value,) in enumerate(to_calc(fn(column)), start=1):
+    for col, name in (("F", "MOLAR_MASS"), ("G", "NAME"), ("H", "CHARGES_BALANCE")):
+        for r, (value,) in enumerate(sf.run(name, column), start=1):
             expect[f"{col}{r}"] = value
-    for r, line in enumerate(to_calc(sf.cc_ions("Al2(SO4)3")), start=1):
+    for r, line in enumerate(sf.run("IONS", "Al2(SO4)3"), start=1):
         for col, value in zip("IJK", line):
             expect[f"{col}{r}"] = value
-    balance = sf.cc_ionbalance([["Ca2+"], ["Mg2+"], ["HCO3-"], ["Cl-"]], [[2.0], [1.0], [2.5], [0.45]])
-    for col, value in zip("IJKL", to_calc(balance)[0]):
+    balance = sf.run("ION_BALANCE", [["Ca2+"], ["Mg2+"], ["HCO3-"], ["Cl-"]], [[2.0], [1.0], [2.5], [0.45]])
+    for col, value in zip("IJKL", balance[0]):
         expect[f"{col}4"] = value
     pairs = ([["NaCl"], ["K2SO4"]], [[0.1], ["20 mmol/L"]])
-    expect["I6"] = to_calc(sf.cc_ionicstrength(*pairs))[0][0]
-    expect["I7"] = to_calc(sf.cc_conductivity(*pairs))[0][0]
-    assert expect["F3"] == "" and str(expect["F4"]).startswith(
-        "#cellchem: "
-    )  # empty in, empty out; refusal text
+    expect["I6"] = sf.run("IONIC_STRENGTH", *pairs)
+    expect["I7"] = sf.run("CONDUCTIVITY", *pairs)
+    # empty in, empty out; a refused cell inside the spilled range is an error cell of its own
+    assert expect["F3"] is None and isinstance(expect["F4"], CellError)
+    assert got["F4"][:2] == ["error", "#VALUE!"] and got["F5"][0] == "value"
     for ref, want in expect.items():
         cell = got.get(ref, ["text", ""])
-        assert _same(cell, ["value", want] if isinstance(want, float) else ["text", want]), (ref, cell, want)
+        assert _same(cell, _calc_value(want)), (ref, cell, want)
+
+
+def test_refusals_are_errors_that_iserror_sees(calc):
+    cells = [
+        ["A1", "co Cl2"],
+        ["B1", "=ISERROR(CELLCHEM_MOLAR_MASS(A1))"],
+        ["B2", '=ISERROR(CELLCHEM_MOLAR_MASS("CoCl2"))'],
+        ["B3", '=CELLCHEM_WHY("molar_mass";A1)'],
+        ["B4", '=CELLCHEM_WHY("CELLCHEM_MOLAR_MASS";"CoCl2")'],
+        ["B5", '=CELLCHEM_WHY("MOLARMASS";A1)'],
+    ]
+    got = calc.run({"cells": cells})["cells"]
+    assert got["B1"][:2] == ["value", 1.0] and got["B2"][:2] == ["value", 0.0]
+    assert got["B3"][:2] == ["text", sf.run("WHY", "MOLAR_MASS", "co Cl2")]
+    assert "co Cl2" in got["B3"][1]
+    assert got.get("B4", ["text", ""])[:2] == ["text", ""]  # an answer: nothing to explain
+    assert got["B5"][0] == "text" and "is not a cellchem worksheet function" in got["B5"][1]
 
 
 def test_empty_cell_zero_rules(calc):
     """Calc passes a reference to an empty cell as 0: text arguments read it as
     empty, arguments where 0 and empty differ refuse it, with the way out."""
     cells = [
-        ["A1", "=CC_MOLARMASS(Z1)"],
-        ["A2", '=CC_ACTIVITY("Ca2+";0.01;;Z1)'],
-        ["A3", '=CC_ACTIVITY("Ca2+";0.01;;"0")'],
-        ["A4", '=CC_CHECKLINE("Sodium chloride";"NaCl";Z1;Z2)'],
+        ["A1", "=CELLCHEM_MOLAR_MASS(Z1)"],
+        ["A2", '=CELLCHEM_ACTIVITY_COEFFICIENT("Ca2+";0.01;;Z1)'],
+        ["A3", '=CELLCHEM_ACTIVITY_COEFFICIENT("Ca2+";0.01;;"0")'],
+        ["A4", '=CELLCHEM_CHECK_LINE("Sodium chloride";"NaCl";Z1;Z2)'],
     ]
+    cells.append(["A5", '=CELLCHEM_WHY("ACTIVITY_COEFFICIENT";"Ca2+";0.01;;Z1)'])
     got = calc.run({"cells": cells})["cells"]
     assert got.get("A1", ["text", ""])[:2] == ["text", ""]
-    assert got["A2"][0] == "text" and got["A2"][1].startswith("#cellchem: temperature_c: read 0")
-    assert got["A3"][1] == pytest.approx(float(sf.cc_activity("Ca2+", 0.01, None, "0")))
-    assert got.get("A4", ["text", ""])[:2] == ["text", sf.cc_checkline("Sodium chloride", "NaCl")]
+    assert got["A2"][:2] == ["error", "#VALUE!"]
+    assert got["A5"][0] == "text" and got["A5"][1].startswith("temperature_c: read 0")
+    assert got["A3"][1] == pytest.approx(float(sf.run("ACTIVITY_COEFFICIENT", "Ca2+", 0.01, None, "0")))
+    assert got.get("A4", ["text", ""])[:2] == ["text", sf.run("CHECK_LINE", "Sodium chloride", "NaCl")]
 
 
 def test_function_wizard_shows_names_descriptions_and_arguments(calc):
     wizard = calc.run({"cells": []})["wizard"]
-    assert set(wizard) == set(sf.FUNCTIONS)
+    assert set(wizard) == {sf.spelled(name, "calc") for name in sf.FUNCTIONS}
     for name, spec in sf.FUNCTIONS.items():
-        assert wizard[name]["description"] == spec.summary
-        assert [a[0] for a in wizard[name]["arguments"]] == [a.name for a in spec.arguments]
-        for (_n, description, _optional), a in zip(wizard[name]["arguments"], spec.arguments):
+        shown = wizard[sf.spelled(name, "calc")]
+        assert shown["description"] == spec.summary
+        assert [a[0] for a in shown["arguments"]] == [a.name for a in spec.arguments]
+        for (_n, description, _optional), a in zip(shown["arguments"], spec.arguments):
             assert description.startswith(a.description)
 
 

@@ -177,7 +177,7 @@ def test_values_of_every_type(tmp_path):
             ' calcext:value-type="string"',
             "ab",
         ),
-        cell('table:formula="of:=CC_FORMULA([.A1])"'),
+        cell('table:formula="of:=ORG.CELLCHEM.SHEET.FUNCTIONS.FORMULA([.A1])"'),
         cell(
             'table:formula="of:=1/0" office:value-type="string" office:string-value=""'
             ' calcext:value-type="error"',
@@ -390,7 +390,7 @@ def test_the_demo_workbook_reads(tmp_path):
     assert rows[5][:4] == ["Copper(II) sulfate pentahydrate", "CuSO4·5H2O", 249.68, "7758-99-8"]
     assert rows[5][4] is NO_SAVED_VALUE  # an array formula of the add-in, never computed
     formulas = [v[2] for n, v in rows.items() if 11 <= n <= 28]
-    assert all(isinstance(x, str) and x.startswith("=CC_") for x in formulas)
+    assert all(isinstance(x, str) and x.startswith("=CELLCHEM.") for x in formulas)
     assert all(v[1] is NO_SAVED_VALUE for n, v in rows.items() if 11 <= n <= 28)
 
 

@@ -1,14 +1,16 @@
-"""The CC_ worksheet functions, called as xlwings calls them, and the demo
+"""The worksheet functions, called as the spreadsheet layers call them, and the demo
 workbook evaluated by an independent formula engine (the `formulas` package)
 with the functions registered as custom functions. Expected values come from
 the core's own functions (the layer must give what the core gives; the core's
-numbers are tested against their sources elsewhere); the shape and conversion
-rules are those of README's "Worksheet functions" section."""
+numbers are tested against their sources elsewhere); the shape, naming and
+error rules are those of README's "Worksheet functions" section."""
 
 from __future__ import annotations
 
 import inspect
 import re
+import sys
+import types
 from pathlib import Path
 
 import pytest
@@ -24,88 +26,128 @@ from cellchem import (
 )
 from cellchem.adapters.sheets import excel as xlwings_udfs
 from cellchem.adapters.sheets import functions as sf
-from cellchem.adapters.sheets.cells import MARK, full_message
+from cellchem.adapters.sheets import lite
+from cellchem.adapters.sheets.cells import CellError
 
 ROOT = Path(__file__).resolve().parents[1]
+run = sf.run
 
 
-# -- as xlwings calls them: ndim=2 lists, None for empty, floats, error text -------------------
+def _refused(v, words=""):
+    return isinstance(v, CellError) and v.code == "#VALUE!" and words in v.message
+
+
+# -- as the layers call them: ndim=2 lists, None for empty, floats, error text -------------------
 
 
 def test_single_cell_and_range_shapes():
-    assert sf.cc_molarmass("NaCl") == pytest.approx(float(molar_mass("NaCl")))
-    assert sf.cc_molarmass([["NaCl"]]) == [[pytest.approx(float(molar_mass("NaCl")))]]
-    column = sf.cc_molarmass([["NaCl"], ["KCl"], [None]])
+    assert run("MOLAR_MASS", "NaCl") == pytest.approx(float(molar_mass("NaCl")))
+    assert run("MOLAR_MASS", [["NaCl"]]) == [[pytest.approx(float(molar_mass("NaCl")))]]
+    column = run("MOLAR_MASS", [["NaCl"], ["KCl"], [None]])
     assert len(column) == 3 and all(len(r) == 1 for r in column)
     assert column[2] == [None]  # empty in, empty out
-    row = sf.cc_molarmass([["NaCl", "KCl", "CaCl2"]])
+    row = run("MOLAR_MASS", [["NaCl", "KCl", "CaCl2"]])
     assert len(row) == 1 and len(row[0]) == 3
-    block = sf.cc_molarmass([["NaCl", "KCl"], ["MgO", None]])
+    block = run("MOLAR_MASS", [["NaCl", "KCl"], ["MgO", None]])
     assert block[1][0] == pytest.approx(float(molar_mass("MgO")))
 
 
 def test_numbers_stay_numbers_and_errors_pass_through():
-    out = sf.cc_molarmass([["NaCl"], ["#N/A"], [-2146826281], ["Xx"]])
+    out = run("MOLAR_MASS", [["NaCl"], ["#N/A"], [-2146826281], ["Xx"]])
     assert isinstance(out[0][0], float)
-    assert out[1][0] == "#N/A"
-    assert out[2][0] == "#DIV/0!"  # the COM code of an error cell
-    assert out[3][0].startswith(MARK)
+    assert out[1][0] == CellError("#N/A")  # the same error value out, with nothing to explain
+    assert out[2][0] == CellError("#DIV/0!")  # the COM code of an error cell
+    assert _refused(out[3][0], "unknown element symbol 'Xx'")
 
 
-def test_refusals_are_short_and_the_full_text_is_kept():
-    short = sf.cc_formula("iron chloride")
-    assert short.startswith(MARK) and len(short) <= len(MARK) + 80
-    full = sf.cc_fullmessage(short)
-    assert "leaves the charge of iron open" in full and len(full) > len(short) - len(MARK)
+def test_a_refusal_is_an_error_value_with_the_whole_message():
+    refused = run("FORMULA", "iron chloride")
+    assert _refused(refused, "leaves the charge of iron open")
+    assert len(refused.message) > 80  # the whole one-line message, not a cut
 
 
 def test_mixed_types():
-    assert sf.cc_casvalid(7732185.0) is False  # a number is read as its digits: no hyphens, not valid
-    assert sf.cc_casvalid("7732-18-5") is True
-    assert sf.cc_oxstate("KMnO4", "Mn") == 7.0
-    assert sf.cc_balanced(True).startswith(MARK)  # a boolean is not a formula
+    assert run("CAS_VALID", 7732185.0) is False  # a number is read as its digits: no hyphens, not valid
+    assert run("CAS_VALID", "7732-18-5") is True
+    assert run("OXIDATION_STATE", "KMnO4", "Mn") == 7.0
+    assert _refused(run("CHARGES_BALANCE", True))  # a boolean is not a formula
     # an organic salt with no catalog anion is neither balanced nor not: refused with the reason
-    assert sf.cc_balanced("C9H19N2NaO4S").startswith(MARK)
-    assert sf.cc_balanced("C2H3NaO2") is True  # sodium acetate in Hill order (common practice)
+    assert _refused(run("CHARGES_BALANCE", "C9H19N2NaO4S"))
+    assert run("CHARGES_BALANCE", "C2H3NaO2") is True  # sodium acetate in Hill order (common practice)
 
 
 def test_broadcast_and_shape_mismatch():
-    out = sf.cc_massfraction([["CuSO4", "CuCl2"]], "Cu")
+    out = run("MASS_FRACTION", [["CuSO4", "CuCl2"]], "Cu")
     assert out[0][1] == pytest.approx(mass_fraction("CuCl2", "Cu"))
-    bad = sf.cc_salt([["Na+", "K+"]], [["Cl-"], ["Br-"]])
-    assert bad.startswith(MARK) and "shapes" in bad
+    assert _refused(run("SALT", [["Na+", "K+"]], [["Cl-"], ["Br-"]]), "shapes")
 
 
-def test_checkline():
-    assert sf.cc_checkline("Sodium chloride", "NaCl", 58.44, "7647-14-5") == ""
+def test_check_line():
+    assert run("CHECK_LINE", "Sodium chloride", "NaCl", 58.44, "7647-14-5") == ""
     # the name and the formula disagree and nothing else on the line settles which is wrong
-    assert sf.cc_checkline("Sodium sulfite", "Na2SO4").startswith("error: the cells disagree")
+    assert run("CHECK_LINE", "Sodium sulfite", "Na2SO4").startswith("error: the cells disagree")
     # with the molar mass of sodium sulfate (142.04, CRC, from memory) the name is the odd one
-    assert "so the name is the cell to check" in sf.cc_checkline("Sodium sulfite", "Na2SO4", 142.04)
-    assert sf.cc_checkline(None, None) is None
-    assert sf.cc_checkline(None, "NaCl2").startswith("error:")
+    assert "so the name is the cell to check" in run("CHECK_LINE", "Sodium sulfite", "Na2SO4", 142.04)
+    assert run("CHECK_LINE", None, None) is None
+    assert run("CHECK_LINE", None, "NaCl2").startswith("error:")
 
 
 def test_solution_functions_take_ranges():
-    assert sf.cc_ionicstrength([["MgCl2"], ["NaCl"]], [[0.1], ["10 mmol/L"]]) == pytest.approx(
+    assert run("IONIC_STRENGTH", [["MgCl2"], ["NaCl"]], [[0.1], ["10 mmol/L"]]) == pytest.approx(
         float(ionic_strength([("MgCl2", 0.1), ("NaCl", 0.01)]))
     )
-    assert sf.cc_ionicstrength([["NaCl"]], [[0.1], [0.2]]).startswith(MARK)
-    assert sf.cc_conductivity("KCl", 0.01) == pytest.approx(float(conductivity([("KCl", 0.01)])))
-    assert sf.cc_ions("Al2(SO4)3") == [["Al3+", 2.0, 3.0], ["SO4 2-", 3.0, -2.0]]
-    assert sf.cc_ions([["NaCl", "KCl"]]).startswith(MARK)
-    balance = sf.cc_ionbalance([["Ca2+"], ["HCO3-"]], [[2.0], [2.0]])
+    assert _refused(run("IONIC_STRENGTH", [["NaCl"]], [[0.1], [0.2]]))
+    assert run("CONDUCTIVITY", "KCl", 0.01) == pytest.approx(float(conductivity([("KCl", 0.01)])))
+    assert run("IONS", "Al2(SO4)3") == [["Al3+", 2.0, 3.0], ["SO4 2-", 3.0, -2.0]]
+    assert _refused(run("IONS", [["NaCl", "KCl"]]), "one formula")
+    balance = run("ION_BALANCE", [["Ca2+"], ["HCO3-"]], [[2.0], [2.0]])
     assert balance == [[2.0, 2.0, 0.0, True]]
 
 
 def test_grams_and_convert():
-    assert sf.cc_grams("CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O") == pytest.approx(
+    assert run("GRAMS_TO_WEIGH", "CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O") == pytest.approx(
         mass_for_solution("CuSO4", 0.1, "250 mL", shelf_form="CuSO4·5H2O").mass
     )
-    assert sf.cc_convert(37, "% w/w", "mol/L", "HCl", 1.18) == pytest.approx(
+    assert run("CONVERT_CONCENTRATION", 37, "% w/w", "mol/L", "HCl", 1.18) == pytest.approx(
         float(convert_concentration(37, "% w/w", "mol/L", "HCl", density=1.18))
     )
-    assert sf.cc_grams("NaCl", 0.1, 1, 99).startswith(MARK)  # a purity over 1 is refused, not guessed
+    assert _refused(run("GRAMS_TO_WEIGH", "NaCl", 0.1, 1, 99))  # a purity over 1 is refused, not guessed
+
+
+# -- WHY: the message where a platform cannot show it ---------------------------------------------
+
+
+def test_why_gives_the_message_of_the_same_call():
+    assert run("WHY", "MOLAR_MASS", "NaCl2Xx") == "unknown element symbol 'Xx' at position 6 in 'NaCl2Xx'"
+    assert run("WHY", "MOLAR_MASS", "NaCl") is None  # an answer: nothing to explain
+    # the name as each platform writes it, in any case
+    for typed in ("CELLCHEM.MOLAR_MASS", "cellchem_molar_mass", "molar_mass"):
+        assert run("WHY", typed, "Xx") == run("MOLAR_MASS", "Xx").message
+    assert run("WHY", "MOLAR_MASS", [["NaCl"], ["Xx"], [None]]) == [
+        [None],
+        [run("MOLAR_MASS", "Xx").message],
+        [None],
+    ]
+    assert run("WHY", "MOLAR_MASS", "#N/A") == "the input is the error value #N/A"
+    assert "is not a cellchem worksheet function" in run("WHY", "MOLARMASS", "NaCl")
+    assert "is not a cellchem worksheet function" in run("WHY", "WHY", "MOLAR_MASS")
+    assert "takes 1 arguments" in run("WHY", "MOLAR_MASS", "NaCl", "extra")
+
+
+@pytest.mark.parametrize("name", sorted(set(sf.FUNCTIONS) - {"WHY"}))
+def test_why_explains_every_refusal_of_every_function(name):
+    spec = sf.FUNCTIONS[name]
+    for args in _inputs(spec):
+        result = spec.implementation(*args)
+        explained = run("WHY", name, *args)
+        if isinstance(result, CellError):
+            assert explained == result.message, args
+        elif isinstance(result, list):
+            flat = [c for row in result for c in row]
+            messages = [c for row in explained for c in row] if isinstance(explained, list) else [explained]
+            assert messages == [c.message if isinstance(c, CellError) else None for c in flat], args
+        else:
+            assert explained is None, args
 
 
 # -- the Excel declarations, generated from FUNCTIONS ------------------------------------------
@@ -129,9 +171,9 @@ def _example_arguments(spec):
 
 
 def test_example_arguments_are_read_as_written():
-    grams = sf.FUNCTIONS["CC_GRAMS"]
+    grams = sf.FUNCTIONS["GRAMS_TO_WEIGH"]
     assert _example_arguments(grams) == ["CuSO4", 0.1, "250 mL", None, "CuSO4.5H2O"]
-    assert _example_arguments(sf.FUNCTIONS["CC_IONBALANCE"]) == [None, None, "mg/L"]
+    assert _example_arguments(sf.FUNCTIONS["ION_BALANCE"]) == [None, None, "mg/L"]
 
 
 def _inputs(spec):
@@ -151,30 +193,161 @@ def _inputs(spec):
 
 
 @pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
-def test_each_function_is_declared_for_excel(name):
+def test_each_entry_is_complete(name):
     spec = sf.FUNCTIONS[name]
-    fn = getattr(xlwings_udfs, name)
-    assert name in xlwings_udfs.__all__
-    assert fn.__name__ == name and fn.__doc__ == spec.summary
+    assert re.fullmatch(r"[A-Z][A-Z_]*[A-Z]", name) and spec.python_name == name.lower()
+    assert spec.example.startswith(f"={sf.spelled(name)}(")
+    optional = [a.optional for a in spec.arguments]
+    assert optional == sorted(optional), "an optional argument before a required one"
+    for a in spec.arguments:
+        assert a.description and len(a.description) < 120
+    # the name each platform shows: a period in Excel, an underscore where names cannot hold one
+    assert sf.spelled(name, "excel") == f"CELLCHEM.{name}"
+    assert sf.spelled(name, "calc") == sf.spelled(name, "classic") == f"CELLCHEM_{name}"
+
+
+# -- xlwings Lite: main.py, generated from FUNCTIONS ------------------------------------------
+
+
+@pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
+def test_lite_gives_what_the_table_gives_as_excel_takes_it(name):
+    spec = sf.FUNCTIONS[name]
+    for args in _inputs(spec):
+        expected = spec.implementation(*args)
+        if isinstance(expected, CellError):
+            # a single refused cell: an exception, which xlwings Lite shows as #VALUE! and its message
+            with pytest.raises(lite.Refused) as raised:
+                lite.call(name, *args)
+            assert str(raised.value) == expected.message
+            continue
+        got = lite.call(name, *args)
+        if isinstance(expected, list):
+            every = [c for row in expected for c in row]
+            if len(every) == 1 and isinstance(every[0], CellError):
+                continue  # raised above's way
+            # in a range each refused cell is the text of the error value, which xlwings makes an error
+            assert got == [[c.code if isinstance(c, CellError) else c for c in row] for row in expected]
+        else:
+            assert got == expected
+
+
+def test_lite_single_cells_raise_and_ranges_hold_error_values():
+    with pytest.raises(lite.Refused, match="unknown element symbol 'Xx'"):
+        lite.call("MOLAR_MASS", [["Xx"]])  # xlwings passes one cell as [[v]] (ndim=2)
+    column = lite.call("MOLAR_MASS", [["NaCl"], ["Xx"], [None], ["#N/A"]])
+    assert column[1:] == [["#VALUE!"], [None], ["#N/A"]]
+    assert lite.call("MOLAR_MASS", [["#N/A"]]) == [["#N/A"]]  # an error value in: the same out
+
+
+class _Recorder(types.ModuleType):
+    """Stands in for xlwings' func and arg decorators while main.py is run: records what they are
+    given (xlwings Lite's own decorators are not imported by the tests; see tests/pyodide)."""
+
+    def __init__(self):
+        super().__init__("xlwings")
+        self.declared = {}
+
+    def func(self, f=None, **options):
+        def mark(fn):
+            self.declared.setdefault(fn.__name__, {"args": []})["func"] = options
+            return fn
+
+        return mark if f is None else mark(f)
+
+    def arg(self, name, convert=None, **options):
+        def mark(fn):
+            self.declared.setdefault(fn.__name__, {"args": []})["args"].insert(0, (name, options))
+            return fn
+
+        return mark
+
+
+def _run_main(monkeypatch, source=None):
+    recorder = _Recorder()
+    monkeypatch.setitem(sys.modules, "xlwings", recorder)
+    module = types.ModuleType("main")
+    exec(compile(source or lite.main_source(), "main.py", "exec"), module.__dict__)
+    return module, recorder.declared
+
+
+def test_main_py_declares_every_function_in_the_namespace(monkeypatch):
+    module, declared = _run_main(monkeypatch)
+    assert set(declared) == {spec.python_name for spec in sf.FUNCTIONS.values()}
+    for name, spec in sf.FUNCTIONS.items():
+        info = declared[spec.python_name]
+        assert info["func"] == {"name": name, "namespace": "cellchem"}
+        assert info["args"] == [
+            (a.name, {"ndim": 2, "err_to_str": True, "doc": a.description}) for a in spec.arguments
+        ]
+        fn = getattr(module, spec.python_name)
+        assert fn.__doc__ == spec.summary  # the function's description in Excel
+        params = inspect.signature(fn).parameters
+        assert list(params) == [a.name for a in spec.arguments]
+        for p, a in zip(params.values(), spec.arguments):
+            assert (p.default is None) if a.optional else (p.default is inspect.Parameter.empty)
+    assert module.molar_mass([["NaCl"], ["KCl"]]) == lite.call("MOLAR_MASS", [["NaCl"], ["KCl"]])
+
+
+def test_main_py_refuses_a_wheel_of_another_version(monkeypatch):
+    from cellchem import __version__
+
+    older = lite.main_source().replace(f"lite.require({__version__!r})", "lite.require('0.0.1')")
+    assert older != lite.main_source()
+    with pytest.raises(Exception, match=r"written for cellchem 0\.0\.1, but requirements.txt installed"):
+        _run_main(monkeypatch, older)
+
+
+def test_requirements_name_the_wheel_and_sqlite3():
+    text = lite.requirements("https://stores.example.org/py/cellchem-0.1.0-py3-none-any.whl")
+    assert text.splitlines() == ["https://stores.example.org/py/cellchem-0.1.0-py3-none-any.whl", "sqlite3"]
+
+
+# -- classic xlwings: names without periods, COM error values ------------------------------------
+
+
+@pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
+def test_each_function_is_declared_for_classic_excel(name):
+    spec = sf.FUNCTIONS[name]
+    classic = sf.spelled(name, "classic")
+    fn = getattr(xlwings_udfs, classic)
+    assert classic in xlwings_udfs.__all__
+    assert fn.__name__ == classic and fn.__doc__ == spec.summary
     params = inspect.signature(fn).parameters
     assert list(params) == [a.name for a in spec.arguments]
     # xlwings reads the signature: every argument positional, optional, None when left out in the cell
     for p in params.values():
         assert p.kind is inspect.Parameter.POSITIONAL_OR_KEYWORD and p.default is None
-    # the signature Excel sees is the one the table's function is written with
     assert inspect.signature(fn) == inspect.signature(spec.implementation)
-    for a in spec.arguments:
-        assert a.description and len(a.description) < 120
-    assert spec.example.startswith("=" + name)
+
+
+class _Variant:
+    def __init__(self, kind, value):
+        self.kind, self.value = kind, value
+
+    def __eq__(self, other):
+        return isinstance(other, _Variant) and (self.kind, self.value) == (other.kind, other.value)
+
+    __hash__ = None
 
 
 @pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
-def test_each_excel_function_gives_what_the_table_gives(name):
+def test_each_classic_function_gives_com_error_values(name, monkeypatch):
+    # pywin32's VARIANT(VT_ERROR, code) is what COM takes for an error value; VT_ERROR is 10 (from memory)
+    monkeypatch.setattr(xlwings_udfs, "VARIANT", _Variant)
+    monkeypatch.setattr(xlwings_udfs, "VT_ERROR", 10)
     spec = sf.FUNCTIONS[name]
-    fn = getattr(xlwings_udfs, name)
+    fn = getattr(xlwings_udfs, sf.spelled(name, "classic"))
     names = [a.name for a in spec.arguments]
+
+    def com(v):
+        return _Variant(10, xlwings_udfs.COM_CODES[v.code]) if isinstance(v, CellError) else v
+
     for args in _inputs(spec):
         expected = spec.implementation(*args)
+        if isinstance(expected, list):
+            expected = [[com(c) for c in row] for row in expected]
+        else:
+            expected = com(expected)
         assert fn(*args) == expected, args
         assert fn(**dict(zip(names, args))) == expected, args
     with pytest.raises(TypeError):
@@ -183,7 +356,13 @@ def test_each_excel_function_gives_what_the_table_gives(name):
         fn(no_such_argument=1)
 
 
-class _Recorder:
+def test_classic_error_codes_are_excels():
+    # CVErr(xlErrValue) and CVErr(xlErrNA) as COM passes them (the table of xlwings' _xlwindows.py)
+    assert xlwings_udfs.COM_CODES["#VALUE!"] == -2146826273
+    assert xlwings_udfs.COM_CODES["#N/A"] == -2146826246
+
+
+class _ClassicRecorder:
     """Stands in for xlwings: records the declarations made through func and arg."""
 
     def __init__(self):
@@ -206,15 +385,16 @@ class _Recorder:
 
 @pytest.mark.parametrize("name", sorted(sf.FUNCTIONS))
 def test_each_function_is_declared_through_xlwings_decorators(name, monkeypatch):
-    recorder = _Recorder()
+    recorder = _ClassicRecorder()
     monkeypatch.setattr(xlwings_udfs, "xw", recorder)
     spec = sf.FUNCTIONS[name]
     xlwings_udfs.declare(spec)
+    classic = sf.spelled(name, "classic")
     # arguments first, then the function, as stacked decorators apply them
     assert recorder.calls == [
-        ("arg", name, a.name, {"doc": a.description, "ndim": 2, "err_to_str": True})
+        ("arg", classic, a.name, {"doc": a.description, "ndim": 2, "err_to_str": True})
         for a in reversed(spec.arguments)
-    ] + [("func", name, {"category": "cellchem"})]
+    ] + [("func", classic, {"category": "cellchem"})]
 
 
 _CLASSIC_ADDIN = """
@@ -243,16 +423,21 @@ print(json.dumps(found))
 def test_the_classic_xlwings_addin_reads_the_table():
     import json
     import subprocess
-    import sys
 
-    run = subprocess.run([sys.executable, "-c", _CLASSIC_ADDIN], capture_output=True, text=True, check=True)
-    found = json.loads(run.stdout)
+    done = subprocess.run([sys.executable, "-c", _CLASSIC_ADDIN], capture_output=True, text=True, check=True)
+    found = json.loads(done.stdout)
     if "skip" in found:
         pytest.skip(f"xlwings' classic decorators cannot be loaded here: {found['skip']}")
-    assert set(found) == set(sf.FUNCTIONS)
+    assert set(found) == {sf.spelled(n, "classic") for n in sf.FUNCTIONS}
     for name, spec in sf.FUNCTIONS.items():
-        info = found[name]
-        assert (info["name"], info["category"], info["sub"]) == (name, "cellchem", False)
+        info = found[sf.spelled(name, "classic")]
+        assert (info["name"], info["category"], info["sub"]) == (
+            sf.spelled(name, "classic"),
+            "cellchem",
+            False,
+        )
+        # a VBA name: letters, digits and underscores, starting with a letter, at most 255 characters
+        assert re.fullmatch(r"[A-Za-z][A-Za-z0-9_]{0,254}", info["name"])
         assert info["ret"]["doc"] == spec.summary  # the description in Excel's function wizard
         assert [a["name"] for a in info["args"]] == [a.name for a in spec.arguments]
         assert [a["doc"] for a in info["args"]] == [a.description for a in spec.arguments]
@@ -263,23 +448,28 @@ def test_the_classic_xlwings_addin_reads_the_table():
 
 def test_without_xlwings_the_functions_are_plain_python():
     import subprocess
-    import sys
 
     code = (
         "import sys; sys.modules['xlwings'] = None\n"  # import xlwings then raises ImportError
         "from cellchem.adapters.sheets import excel\n"
         "assert excel.xw is None\n"
-        "assert not hasattr(excel.CC_FORMULA, '__xlfunc__')\n"
-        "print(excel.CC_FORMULA('ferric chloride'), excel.CC_NAME.__doc__)\n"
+        "assert not hasattr(excel.CELLCHEM_FORMULA, '__xlfunc__')\n"
+        "print(excel.CELLCHEM_FORMULA('ferric chloride'), excel.CELLCHEM_NAME.__doc__)\n"
     )
-    run = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
-    assert run.stdout.strip() == "FeCl3 " + sf.FUNCTIONS["CC_NAME"].summary
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert done.stdout.strip() == "FeCl3 " + sf.FUNCTIONS["NAME"].summary
 
 
-def test_readme_lists_every_function():
+def test_readme_lists_every_function_for_every_platform():
+    import runpy
+
     text = (ROOT / "README.md").read_text(encoding="utf-8")
-    listed = set(re.findall(r"^\| `(CC_[A-Z]+)\(", text, re.M))
-    assert listed == set(sf.FUNCTIONS)
+    rows = re.findall(r"^\| `CELLCHEM\.([A-Z_]+)\(.*?\| `CELLCHEM_([A-Z_]+)`", text, re.M)
+    assert {excel for excel, _ in rows} == set(sf.FUNCTIONS)
+    assert all(excel == other for excel, other in rows)
+    # the table is the one tools/functions_table.py prints from FUNCTIONS
+    table = runpy.run_path(str(ROOT / "tools" / "functions_table.py"))["rows"]()
+    assert "\n".join(table) in text
 
 
 # -- the demo workbook through an independent formula engine ----------------------------------
@@ -305,16 +495,20 @@ def _cell(v):
 @pytest.fixture(scope="module")
 def evaluated():
     import numpy as np
+    from formulas.tokens.operand import Error
 
     functions = formulas.get_functions()
     for name in sf.FUNCTIONS:
-        udf = getattr(xlwings_udfs, name)  # the demo through the Excel layer
+        # the demo through the xlwings Lite layer: Excel shows a raised refusal as #VALUE!
 
-        def run(*args, _impl=udf):
-            result = _impl(*[_cell(a) for a in args])
+        def call(*args, _name=name):
+            try:
+                result = lite.call(_name, *[_cell(a) for a in args])
+            except lite.Refused:
+                return Error.errors["#VALUE!"]
             return np.array(result, dtype=object) if isinstance(result, list) else result
 
-        functions[name] = run
+        functions[sf.spelled(name)] = call
     model = formulas.ExcelModel().loads(str(ROOT / "workbooks" / "demo-worksheet-functions.xlsx")).finish()
     solution = model.calculate()
     values = {}
@@ -325,10 +519,12 @@ def evaluated():
 
 
 def _one(values, ref):
+    from formulas.tokens.operand import XlError
+
     v = values[ref]
     while isinstance(v, list):
         v = v[0]
-    return v
+    return str(v) if isinstance(v, XlError) else v
 
 
 def test_demo_cells_against_the_core(evaluated):
@@ -340,13 +536,8 @@ def test_demo_ranges_spill(evaluated):
     assert [r[0] for r in masses] == [
         pytest.approx(float(molar_mass(f))) for f in ("CuSO4·5H2O", "NaCl", "FeCl3", "KMnO4", "NaCl2")
     ]
-    assert evaluated["B30:D31"] == [["Al3+", 2.0, 3.0], ["SO4 2-", 3.0, -2.0]]
-    cations, anions, error, ok = evaluated["C33:F33"][0]
+    assert evaluated["B31:D32"] == [["Al3+", 2.0, 3.0], ["SO4 2-", 3.0, -2.0]]
+    cations, anions, error, ok = evaluated["C34:F34"][0]
     # Ca2+ 2.0 + Mg2+ 1.0 = 3.0 meq/L; HCO3- 2.5 + Cl- 0.45 = 2.95 (worked by hand)
     assert (cations, anions) == (pytest.approx(3.0), pytest.approx(2.95)) and ok is True
     assert error == pytest.approx(100 * 0.05 / 5.95)
-
-
-def test_full_message_function_matches_the_layer():
-    short = sf.cc_molarmass("NaCl2Xx")
-    assert full_message(short) == "unknown element symbol 'Xx' at position 6 in 'NaCl2Xx'"

@@ -487,24 +487,28 @@ def supplier_table_csv() -> bytes:
 # above it (rows 4-9). The Excel and LibreOffice layers compute them; a test
 # evaluates them with an independent formula engine and compares with the core.
 FUNCTION_DEMOS = [
-    ("Formula from the name", "=CC_FORMULA(A5)"),
-    ("Systematic name", "=CC_NAME(B6)"),
-    ("Legacy name", '=CC_NAME(B7,"legacy")'),
-    ("Salt of Al3+ and sulfate", '=CC_SALT("Al3+","sulfate")'),
-    ("Molar mass (g/mol)", "=CC_MOLARMASS(B5)"),
-    ("Mass fraction of Cu", '=CC_MASSFRACTION(B5,"Cu")'),
-    ("Net charge of SO4 2-", '=CC_NETCHARGE("SO4 2-")'),
-    ("Oxidation state of Mn", '=CC_OXSTATE(B8,"Mn")'),
-    ("Balanced?", "=CC_BALANCED(B9)"),
-    ("Line check", "=CC_CHECKLINE(A9,B9,C9,D9)"),
-    ("CAS RN valid?", "=CC_CASVALID(D6)"),
-    ("Formula the substance table holds for the CAS RN", '=CC_SUBSTANCE(D5,"formula")'),
-    ("Ionic strength (mol/L)", '=CC_IONICSTRENGTH("MgCl2",0.1)'),
-    ("Activity of Ca2+ at I = 0.01", '=CC_ACTIVITY("Ca2+",0.01,"extended")'),
-    ("Conductivity of 0.01 M KCl (uS/cm)", '=CC_CONDUCTIVITY("KCl",0.01)'),
-    ("Grams of CuSO4.5H2O for 250 mL of 0.1 M CuSO4", '=CC_GRAMS("CuSO4",0.1,"250 mL",1,"CuSO4.5H2O")'),
-    ("37 % w/w HCl (1.18 g/mL) in mol/L", '=CC_CONVERT(37,"% w/w","mol/L","HCl",1.18)'),
-    ("Message behind a refusal", '=CC_FULLMESSAGE(CC_MOLARMASS(B9&"Xx"))'),
+    ("Formula from the name", "=CELLCHEM.FORMULA(A5)"),
+    ("Systematic name", "=CELLCHEM.NAME(B6)"),
+    ("Legacy name", '=CELLCHEM.NAME(B7,"legacy")'),
+    ("Salt of Al3+ and sulfate", '=CELLCHEM.SALT("Al3+","sulfate")'),
+    ("Molar mass (g/mol)", "=CELLCHEM.MOLAR_MASS(B5)"),
+    ("Mass fraction of Cu", '=CELLCHEM.MASS_FRACTION(B5,"Cu")'),
+    ("Net charge of SO4 2-", '=CELLCHEM.NET_CHARGE("SO4 2-")'),
+    ("Oxidation state of Mn", '=CELLCHEM.OXIDATION_STATE(B8,"Mn")'),
+    ("Balanced?", "=CELLCHEM.CHARGES_BALANCE(B9)"),
+    ("Line check", "=CELLCHEM.CHECK_LINE(A9,B9,C9,D9)"),
+    ("CAS RN valid?", "=CELLCHEM.CAS_VALID(D6)"),
+    ("Formula the substance table holds for the CAS RN", '=CELLCHEM.SUBSTANCE(D5,"formula")'),
+    ("Ionic strength (mol/L)", '=CELLCHEM.IONIC_STRENGTH("MgCl2",0.1)'),
+    ("Activity of Ca2+ at I = 0.01", '=CELLCHEM.ACTIVITY_COEFFICIENT("Ca2+",0.01,"extended")'),
+    ("Conductivity of 0.01 M KCl (uS/cm)", '=CELLCHEM.CONDUCTIVITY("KCl",0.01)'),
+    (
+        "Grams of CuSO4.5H2O for 250 mL of 0.1 M CuSO4",
+        '=CELLCHEM.GRAMS_TO_WEIGH("CuSO4",0.1,"250 mL",1,"CuSO4.5H2O")',
+    ),
+    ("37 % w/w HCl (1.18 g/mL) in mol/L", '=CELLCHEM.CONVERT_CONCENTRATION(37,"% w/w","mol/L","HCl",1.18)'),
+    ("A refusal: molar mass of a formula with a typo", '=CELLCHEM.MOLAR_MASS(B9&"Xx")'),
+    ("Why it was refused", '=CELLCHEM.WHY("MOLAR_MASS",B9&"Xx")'),
 ]
 FUNCTION_STOCK = [
     ("Item", "Formula", "MW", "CAS No."),
@@ -517,7 +521,7 @@ FUNCTION_STOCK = [
 
 
 def functions_workbook(path: Path) -> None:
-    """A sheet using every CC_ function on a short invented stock list, with
+    """A sheet using every cellchem function on a short invented stock list, with
     the range forms (a column of molar masses, the spilled ions of a salt)."""
     from openpyxl import Workbook
     from openpyxl.styles import Font
@@ -536,7 +540,7 @@ def functions_workbook(path: Path) -> None:
         cell.font = Font(bold=True)
     ws["E4"] = "Molar mass (range)"
     ws["E4"].font = Font(bold=True)
-    ws["E5"] = ArrayFormula("E5:E9", "=CC_MOLARMASS(B5:B9)")
+    ws["E5"] = ArrayFormula("E5:E9", "=CELLCHEM.MOLAR_MASS(B5:B9)")
     ws.append([])
     start = ws.max_row + 1
     ws.cell(row=start, column=1, value="What").font = Font(bold=True)
@@ -550,14 +554,14 @@ def functions_workbook(path: Path) -> None:
         text.quotePrefix = True
     row = start + len(FUNCTION_DEMOS) + 2
     ws.cell(row=row, column=1, value="Ions of Al2(SO4)3 (spilled)")
-    ws.cell(row=row, column=2).value = ArrayFormula(f"B{row}:D{row + 1}", '=CC_IONS("Al2(SO4)3")')
+    ws.cell(row=row, column=2).value = ArrayFormula(f"B{row}:D{row + 1}", '=CELLCHEM.IONS("Al2(SO4)3")')
     row += 3
     ws.cell(row=row, column=1, value="Ion balance (meq/L)")
     for k, (ion, value) in enumerate([("Ca2+", 2.0), ("Mg2+", 1.0), ("HCO3-", 2.5), ("Cl-", 0.45)]):
         ws.cell(row=row + 1 + k, column=1, value=ion)
         ws.cell(row=row + 1 + k, column=2, value=value)
     ws.cell(row=row, column=3).value = ArrayFormula(
-        f"C{row}:F{row}", f'=CC_IONBALANCE(A{row + 1}:A{row + 4},B{row + 1}:B{row + 4},"meq/L")'
+        f"C{row}:F{row}", f'=CELLCHEM.ION_BALANCE(A{row + 1}:A{row + 4},B{row + 1}:B{row + 4},"meq/L")'
     )
     ws.column_dimensions["A"].width = 46
     ws.column_dimensions["B"].width = 30
@@ -567,22 +571,25 @@ def functions_workbook(path: Path) -> None:
 
 
 # LibreOffice Calc reads add-in functions in OpenDocument files by their
-# programmatic names; LibreOffice 7.4 does not map the CC_* names in .xlsx
-# files to the add-in (README, LibreOffice Calc), so the demo has an .ods twin.
+# programmatic names, and Calc's names for them (CELLCHEM_MOLAR_MASS) differ
+# from Excel's (CELLCHEM.MOLAR_MASS; README, Worksheet functions), so the demo
+# has an .ods twin.
 
 
 def _odf_formula(formula: str) -> str:
-    """An Excel-style formula (=CC_X(B5,"a")) in OpenFormula (of:=ORG...CCX([.B5];"a"))."""
+    """An Excel formula (=CELLCHEM.X_Y(B5,"a")) in OpenFormula (of:=ORG...XY([.B5];"a"))."""
     import re
 
     from cellchem.adapters.sheets.calc.component import IMPLEMENTATION, method_name
 
     out = []
-    for token in re.findall(r'"[^"]*"|CC_[A-Z]+|[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?|.', formula.lstrip("=")):
+    for token in re.findall(
+        r'"[^"]*"|CELLCHEM\.[A-Z_]+|[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?|.', formula.lstrip("=")
+    ):
         if token.startswith('"'):
             out.append(token)
-        elif token.startswith("CC_"):
-            out.append(f"{IMPLEMENTATION}.{method_name(token)}".upper())
+        elif token.startswith("CELLCHEM."):
+            out.append(f"{IMPLEMENTATION}.{method_name(token.removeprefix('CELLCHEM.'))}".upper())
         elif re.fullmatch(r"[A-Z]+[0-9]+(?::[A-Z]+[0-9]+)?", token):
             out.append("[" + ":".join("." + part for part in token.split(":")) + "]")
         elif token == ",":

@@ -8,7 +8,7 @@ new sheet (a value starting with "=" is a formula, set in Calc's English
 API grammar); then recalculates everything and prints, as JSON, every
 non-empty cell of the first sheet as ref -> [kind, value] (kind: value,
 text, error, formula-text), plus the function wizard's descriptions of the
-CC_* functions.
+cellchem functions.
 """
 
 import json
@@ -86,7 +86,7 @@ def main():
                 if kind == "FORMULA":
                     t = cell.FormulaResultType2  # 1 value, 2 text, 4 error
                     if cell.getError():
-                        out[ref] = ["error", cell.getString(), cell.getFormula()]
+                        out[ref] = ["error", cell.getString(), cell.getFormula(), cell.getError()]
                     elif t == 1:
                         out[ref] = ["value", cell.getValue(), cell.getFormula()]
                     else:
@@ -99,7 +99,7 @@ def main():
         descriptions = smgr.createInstanceWithContext("com.sun.star.sheet.FunctionDescriptions", ctx)
         for i in range(descriptions.getCount()):
             d = {p.Name: p.Value for p in descriptions.getByIndex(i)}
-            if str(d.get("Name", "")).startswith("CC_"):
+            if str(d.get("Name", "")).startswith("CELLCHEM_"):
                 wizard[d["Name"]] = {
                     "description": d.get("Description"),
                     "arguments": [[a.Name, a.Description, a.IsOptional] for a in d.get("Arguments", ())],

@@ -1,15 +1,18 @@
 """Cell values in and out of the worksheet functions: the rules the Excel
-(xlwings) and LibreOffice Calc layers share.
+(xlwings Lite, classic xlwings) and LibreOffice Calc layers share.
 
 In: a single cell arrives as a scalar, a range as a 2-D list (rows of
 values); empty cells are ``None``; numbers are floats; Excel error values
 arrive as their text (``'#N/A'``) or as the integer codes COM uses.
 
 Out: a function of one compound given a range returns a 2-D list of the same
-shape (it spills); empty in gives empty out; numbers stay numbers; an error
-value in gives the same error value out; bad chemistry input never raises:
-the cell shows a short message that starts with ``MARK`` (so a filter on
-that text finds every refusal), and ``full_message`` gives the whole of it.
+shape (it spills); empty in gives empty out; numbers stay numbers. A cell
+the function cannot answer is a ``CellError``: an error value passed in
+comes out as the same error value, and bad chemistry input is refused as
+``#VALUE!`` carrying cellchem's one-line message. No layer shows a refusal as
+text that could pass for an answer: each turns ``CellError`` into its
+platform's own error value (``lite``, ``excel``, ``calc.component``), and
+``why`` gives the message where the platform cannot show it.
 
 LibreOffice Calc hands values over differently (``from_calc``, ``to_calc``):
 a range is a tuple of row tuples with ``''`` for empty cells, a reference to
@@ -21,18 +24,19 @@ and no boolean. Each argument says what a lone 0 means (``ZERO_*``).
 from __future__ import annotations
 
 import math
-from collections import OrderedDict
+import struct
 from collections.abc import Callable, Sequence
+from dataclasses import dataclass
 
 from ...errors import CellchemError
 
-MARK = "#cellchem: "
-SHORT = 80  # characters of the message shown in the cell, after the mark
+REFUSED = "#VALUE!"  # the error value of a refusal: "a value in the formula is of the wrong type"
 
 EXCEL_ERRORS = frozenset(
     {"#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A", "#GETTING_DATA", "#SPILL!", "#CALC!"}
 )
-# the codes COM gives for error cells (xlwings on Windows without err_to_str)
+# the codes COM gives for error cells (xlwings on Windows without err_to_str); the same table is in
+# xlwings' _xlwindows.py
 COM_ERRORS = {
     -2146826281: "#DIV/0!",
     -2146826246: "#N/A",
@@ -43,12 +47,24 @@ COM_ERRORS = {
     -2146826273: "#VALUE!",
 }
 
-_FULL: OrderedDict[str, str] = OrderedDict()
-_FULL_SIZE = 10_000
+
+@dataclass(frozen=True)
+class CellError:
+    """A cell with no answer: ``code`` is the spreadsheet error value to show
+    (``#VALUE!`` for a refusal, or the error value that came in), ``message``
+    cellchem's reason (empty for an error value passed through)."""
+
+    code: str
+    message: str = ""
+
+    def __str__(self) -> str:
+        return self.code + (f" {self.message}" if self.message else "")
 
 
 def error_value(v: object) -> str | None:
     """The error text of an Excel error value, or None."""
+    if isinstance(v, CellError):
+        return v.code
     if isinstance(v, str) and v in EXCEL_ERRORS:
         return v
     if isinstance(v, int) and not isinstance(v, bool) and v in COM_ERRORS:
@@ -60,23 +76,30 @@ def blank(v: object) -> bool:
     return v is None or (isinstance(v, str) and not v.strip())
 
 
-def refusal(exc: Exception) -> str:
-    """The short marked text for a refusal; the full text is kept for ``full_message``."""
-    message = str(exc)
-    short = MARK + (message if len(message) <= SHORT else message[: SHORT - 3].rstrip() + "...")
-    _FULL[short] = message
-    _FULL.move_to_end(short)
-    while len(_FULL) > _FULL_SIZE:
-        _FULL.popitem(last=False)
-    return short
+def refusal(exc: Exception) -> CellError:
+    """The cell for a refused input: ``#VALUE!`` with the whole one-line message."""
+    return CellError(REFUSED, str(exc))
 
 
-def full_message(text: object) -> str:
-    """The whole message behind a short marked text (as long as it was made
-    in this session), the text itself otherwise."""
-    if not isinstance(text, str):
-        return "" if text is None else str(text)
-    return _FULL.get(text, text[len(MARK) :] if text.startswith(MARK) else text)
+def reason(result: object) -> object:
+    """What ``why`` shows for a result: the message of a refusal, the error
+    value that came in, or empty for an answer; a range cell by cell."""
+    if isinstance(result, list):
+        return [reason(row) if isinstance(row, list) else _reason_one(row) for row in result]
+    return _reason_one(result)
+
+
+def _reason_one(v: object) -> str | None:
+    if isinstance(v, CellError):
+        return v.message or f"the input is the error value {v.code}"
+    return None
+
+
+def cells_of(result: object) -> list[object]:
+    """Every cell of a result, row by row."""
+    if isinstance(result, list):
+        return [x for row in result for x in (row if isinstance(row, list) else [row])]
+    return [result]
 
 
 def as_grid(v: object) -> tuple[list[list[object]], bool]:
@@ -132,7 +155,7 @@ def quantity(v: object, what: str) -> float | str:
 
 def out(value: object) -> object:
     """A result for a cell: numbers as floats, None as empty, the rest as is."""
-    if isinstance(value, bool) or value is None or isinstance(value, str):
+    if isinstance(value, bool) or value is None or isinstance(value, str | CellError):
         return value
     if isinstance(value, int | float):
         return float(value)
@@ -147,8 +170,8 @@ def cellwise(
     """Apply ``fn`` to each cell of the arguments, broadcast: every range
     argument must have one shape; single cells apply to every cell. The first
     argument blank (or ``blank_when(values)``) gives a blank result; an error
-    value in any argument gives that error value; a CellchemError gives the
-    marked refusal."""
+    value in any argument gives that error value; a CellchemError gives a
+    refusal (``CellError``)."""
     grids = [as_grid(a) for a in args]
     shapes = {
         (len(g), len(g[0]) if g else 0)
@@ -181,7 +204,7 @@ def _one(
     for v in values:
         err = error_value(v)
         if err is not None:
-            return err
+            return CellError(err)
     if (blank_when or _first_blank)(values):
         return None
     try:
@@ -202,12 +225,12 @@ def flat(v: object) -> list[object]:
 
 def aggregate(fn: Callable[..., object], *args: object) -> object:
     """Apply ``fn`` to whole ranges (the functions over a solution's
-    solutes); errors in or a refusal give one marked cell."""
+    solutes); an error value in, or a refusal, gives one error cell."""
     for a in args:
         for v in flat(a):
             err = error_value(v)
             if err is not None:
-                return err
+                return CellError(err)
     try:
         return fn(*args)
     except CellchemError as exc:
@@ -219,6 +242,12 @@ def aggregate(fn: Callable[..., object], *args: object) -> object:
 ZERO_IS_EMPTY = "empty"  # text, or a quantity that is never 0 (molar mass, volume): read as an empty cell
 ZERO_IS_ZERO = "zero"  # a value where 0 is common and harmless (a concentration to convert)
 ZERO_IS_AMBIGUOUS = "ambiguous"  # 0 and empty mean different things (0 degrees C vs the default 25)
+ZERO_AS_TARGET = "target"  # WHY's arguments: read by the rule of the function WHY explains (settle_zero)
+
+
+# Calc keeps an error inside a number as a NaN whose low bits hold the error's code (519: #VALUE!,
+# "no value"); a plain NaN shows as #NUM!. tests/test_calc.py checks what Calc shows.
+CALC_VALUE_ERROR = struct.unpack("<d", struct.pack("<Q", 0x7FF8000000000000 | 519))[0]
 
 
 class _CalcZero:
@@ -230,6 +259,21 @@ class _CalcZero:
 
 
 CALC_ZERO = _CalcZero()
+
+
+class _CalcZeroUnread:
+    """A lone 0 from Calc not yet read: WHY passes it on to the function it explains."""
+
+    def __repr__(self) -> str:
+        return "0"
+
+
+CALC_ZERO_UNREAD = _CalcZeroUnread()
+
+
+def settle_zero(v: object, zero: str) -> object:
+    """A value WHY passed on, read by the ``zero`` rule of the argument it fills."""
+    return from_calc(0.0, zero) if v is CALC_ZERO_UNREAD else v
 
 
 def from_calc(v: object, zero: str = ZERO_IS_EMPTY) -> object:
@@ -249,6 +293,8 @@ def from_calc(v: object, zero: str = ZERO_IS_EMPTY) -> object:
     if v == "" or v is None:
         return None
     if isinstance(v, float) and v == 0.0:
+        if zero == ZERO_AS_TARGET:
+            return CALC_ZERO_UNREAD
         if zero == ZERO_IS_EMPTY:
             return None
         if zero == ZERO_IS_AMBIGUOUS:
@@ -269,6 +315,8 @@ def to_calc(result: object) -> tuple[tuple[object, ...], ...]:
 
 
 def _calc_cell(v: object) -> object:
+    if isinstance(v, CellError):
+        return CALC_VALUE_ERROR  # an error cell in Calc's result array
     if v is None:
         return ""
     if isinstance(v, bool):

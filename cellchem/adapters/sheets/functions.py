@@ -1,12 +1,19 @@
-"""The worksheet functions: the core behind ``CC_*`` names, over cell values.
+"""The worksheet functions: the core over cell values, one table for every spreadsheet.
 
 Each function takes cell values as a spreadsheet layer hands them over
 (scalars, 2-D lists for ranges, ``None`` for empty cells, floats for
 numbers), converts them with ``cells``, calls the core and converts the
-answer back. No chemistry lives here. ``FUNCTIONS`` describes every function
-(arguments with a one-line description and unit, the result, an example) for
-the Excel layer (``excel``, generated from it), for README's table and for the function
-wizard of other spreadsheet programs.
+answer back; a cell it cannot answer is a ``cells.CellError``. No chemistry
+lives here. ``FUNCTIONS`` describes every function (its name, arguments with
+a one-line description and unit, the result, an example) for the xlwings
+Lite module (``lite``), the classic xlwings layer (``excel``), the Calc
+add-in (``calc``), all generated from it, and for README's tables.
+
+A function's name in the table (``MOLAR_MASS``) is its name inside the
+``cellchem`` namespace; each platform spells the whole name by its own rules
+(``spelled``): ``CELLCHEM.MOLAR_MASS`` in Excel's custom functions and in
+Calc, ``CELLCHEM_MOLAR_MASS`` in classic xlwings, whose VBA names allow no
+period.
 """
 
 from __future__ import annotations
@@ -37,6 +44,7 @@ from ...audit import ERROR, NOTE, WARNING, check_line
 from ...errors import CellchemError
 from ...substances import edition, substance
 from .cells import (
+    ZERO_AS_TARGET,
     ZERO_IS_AMBIGUOUS,
     ZERO_IS_EMPTY,
     ZERO_IS_ZERO,
@@ -44,10 +52,11 @@ from .cells import (
     blank,
     cellwise,
     flat,
-    full_message,
     number,
     quantity,
+    reason,
     refusal,
+    settle_zero,
     text,
 )
 
@@ -62,13 +71,29 @@ class Argument:
 
 @dataclass(frozen=True)
 class SheetFunction:
-    name: str
+    name: str  # the name inside the namespace, e.g. MOLAR_MASS
     summary: str
     arguments: tuple[Argument, ...]
     result: str
     example: str
     implementation: Callable[..., object]
     ranges: bool = True  # a range of compounds gives a range of results
+
+    @property
+    def python_name(self) -> str:
+        """The Python name of the function in the generated modules: molar_mass."""
+        return self.name.lower()
+
+
+NAMESPACE = "CELLCHEM"
+# how each platform writes a namespaced name: Excel custom functions (xlwings Lite) and Calc add-in
+# display names take a period; VBA names (classic xlwings) take letters, digits and underscores only
+SEPARATOR = {"excel": ".", "calc": "_", "classic": "_"}
+
+
+def spelled(name: str, platform: str = "excel") -> str:
+    """The whole name a user types on a platform: spelled("MOLAR_MASS") -> 'CELLCHEM.MOLAR_MASS'."""
+    return NAMESPACE + SEPARATOR[platform] + name
 
 
 FUNCTIONS: dict[str, SheetFunction] = {}
@@ -91,27 +116,27 @@ def _opt_text(v: object, default: str, what: str) -> str:
 
 
 @_register(
-    "CC_FORMULA",
+    "FORMULA",
     "The formula of a compound named as suppliers name it.",
     [A("name", "the name, e.g. copper(II) sulfate pentahydrate, ferric chloride")],
     "text",
-    '=CC_FORMULA("ferric chloride") gives FeCl3',
+    '=CELLCHEM.FORMULA("ferric chloride") gives FeCl3',
 )
-def cc_formula(name=None):
+def _formula(name=None):
     return cellwise(lambda n: formula_from_name(text(n, "name")), [name])
 
 
 @_register(
-    "CC_NAME",
+    "NAME",
     "The systematic (IUPAC) name of a formula.",
     [
         A("formula", "the formula, e.g. CuSO4.5H2O"),
         A("style", "iupac (default), british, american or legacy (ferric, cupric)", True),
     ],
     "text",
-    '=CC_NAME("FeCl3") gives iron(III) chloride',
+    '=CELLCHEM.NAME("FeCl3") gives iron(III) chloride',
 )
-def cc_name(formula=None, style=None):
+def _name(formula=None, style=None):
     def one(f, s):
         chosen = _opt_text(s, "iupac", "style").casefold()
         if chosen == "legacy":
@@ -124,57 +149,57 @@ def cc_name(formula=None, style=None):
 
 
 @_register(
-    "CC_SALT",
+    "SALT",
     "The neutral compound of a cation and an anion, by charge balance.",
     [A("cation", "the cation, e.g. Fe3+ or iron(III)"), A("anion", "the anion, e.g. SO4 2- or sulfate")],
     "text",
-    '=CC_SALT("Al3+","sulfate") gives Al2(SO4)3',
+    '=CELLCHEM.SALT("Al3+","sulfate") gives Al2(SO4)3',
 )
-def cc_salt(cation=None, anion=None):
+def _salt(cation=None, anion=None):
     return cellwise(lambda c, a: salt_formula(text(c, "cation"), text(a, "anion")), [cation, anion])
 
 
 @_register(
-    "CC_MOLARMASS",
+    "MOLAR_MASS",
     "Molar mass of a formula from the standard atomic weights, in g/mol.",
     [A("formula", "the formula, e.g. CuSO4.5H2O")],
     "number, g/mol",
-    '=CC_MOLARMASS("CuSO4.5H2O") gives 249.68',
+    '=CELLCHEM.MOLAR_MASS("CuSO4.5H2O") gives 249.68',
 )
-def cc_molarmass(formula=None):
+def _molar_mass(formula=None):
     return cellwise(lambda f: float(molar_mass(text(f, "formula"))), [formula])
 
 
 @_register(
-    "CC_MASSFRACTION",
+    "MASS_FRACTION",
     "Mass fraction of an element or ion in a formula (0 to 1).",
     [A("formula", "the formula, e.g. CuSO4.5H2O"), A("part", "the element or ion, e.g. Cu or SO4")],
     "number, fraction (format as % to show percent)",
-    '=CC_MASSFRACTION("CuSO4.5H2O","Cu") gives 0.2545',
+    '=CELLCHEM.MASS_FRACTION("CuSO4.5H2O","Cu") gives 0.2545',
 )
-def cc_massfraction(formula=None, part=None):
+def _mass_fraction(formula=None, part=None):
     return cellwise(lambda f, p: mass_fraction(text(f, "formula"), text(p, "part")), [formula, part])
 
 
 @_register(
-    "CC_NETCHARGE",
+    "NET_CHARGE",
     "The net charge of an ion or compound.",
     [A("formula", "the formula, e.g. SO4 2- or NaCl")],
     "number",
-    '=CC_NETCHARGE("SO4 2-") gives -2',
+    '=CELLCHEM.NET_CHARGE("SO4 2-") gives -2',
 )
-def cc_netcharge(formula=None):
+def _net_charge(formula=None):
     return cellwise(lambda f: float(net_charge(text(f, "formula"))), [formula])
 
 
 @_register(
-    "CC_OXSTATE",
+    "OXIDATION_STATE",
     "The oxidation state of an element in a formula.",
     [A("formula", "the formula, e.g. KMnO4"), A("element", "the element symbol, e.g. Mn")],
     "number",
-    '=CC_OXSTATE("KMnO4","Mn") gives 7',
+    '=CELLCHEM.OXIDATION_STATE("KMnO4","Mn") gives 7',
 )
-def cc_oxstate(formula=None, element=None):
+def _oxidation_state(formula=None, element=None):
     def one(f, e):
         state = oxidation_state(text(f, "formula"), text(e, "element"), mean=True)
         return float(state) if isinstance(state, Fraction | int) else state
@@ -183,14 +208,14 @@ def cc_oxstate(formula=None, element=None):
 
 
 @_register(
-    "CC_BALANCED",
+    "CHARGES_BALANCE",
     "TRUE when the formula's charges balance (catalog ions, or oxidation states for a molecule).",
     [A("formula", "the formula, e.g. NaCl2")],
     "TRUE or FALSE; a refusal for an organic formula no catalog anion accounts for (charge balance not"
     " applicable) or one with an odd number of electrons",
-    '=CC_BALANCED("NaCl2") gives FALSE',
+    '=CELLCHEM.CHARGES_BALANCE("NaCl2") gives FALSE',
 )
-def cc_balanced(formula=None):
+def _charges_balance(formula=None):
     return cellwise(_balanced_one, [formula])
 
 
@@ -212,7 +237,7 @@ def _checkline_one(name, formula, mass, cas):
 
 
 @_register(
-    "CC_CHECKLINE",
+    "CHECK_LINE",
     "The audit's verdict on one line: empty when name, formula, molar mass and CAS RN agree.",
     [
         A("name", "the name on the line"),
@@ -221,9 +246,9 @@ def _checkline_one(name, formula, mass, cas):
         A("cas", "the CAS RN", True),
     ],
     "text (empty when all agree)",
-    '=CC_CHECKLINE("Sodium sulfite","Na2SO4") gives error: the name ... reads as Na2SO3 ...',
+    '=CELLCHEM.CHECK_LINE("Sodium sulfite","Na2SO4") gives error: the name ... reads as Na2SO3 ...',
 )
-def cc_checkline(name=None, formula=None, molar_mass=None, cas=None):
+def _check_line(name=None, formula=None, molar_mass=None, cas=None):
     return cellwise(
         _checkline_one,
         [name, formula, molar_mass, cas],
@@ -232,27 +257,27 @@ def cc_checkline(name=None, formula=None, molar_mass=None, cas=None):
 
 
 @_register(
-    "CC_CASVALID",
+    "CAS_VALID",
     "TRUE when a CAS RN has the standard form and a correct check digit.",
     [A("cas", "the CAS RN, e.g. 7732-18-5")],
     "TRUE or FALSE",
-    '=CC_CASVALID("7732-18-5") gives TRUE',
+    '=CELLCHEM.CAS_VALID("7732-18-5") gives TRUE',
 )
-def cc_casvalid(cas=None):
+def _cas_valid(cas=None):
     return cellwise(lambda c: cas_is_valid(text(c, "cas")), [cas])
 
 
 @_register(
-    "CC_SUBSTANCE",
+    "SUBSTANCE",
     "What the substance table holds for a CAS RN: its formula, name or molar mass (open data, PubChem).",
     [
         A("cas", "the CAS RN, e.g. 7758-99-8"),
-        A("what", "formula (the default), name or molar mass"),
+        A("what", "formula (the default), name or molar mass", True),
     ],
     "text, or a number in g/mol for molar mass; a refusal for a CAS RN the table does not hold",
-    '=CC_SUBSTANCE("7758-99-8","formula") gives CuH10O9S',
+    '=CELLCHEM.SUBSTANCE("7758-99-8","formula") gives CuH10O9S',
 )
-def cc_substance(cas=None, what=None):
+def _substance(cas=None, what=None):
     def one(c, w):
         record = substance(text(c, "cas"))
         if record is None:
@@ -273,17 +298,17 @@ def cc_substance(cas=None, what=None):
 
 
 @_register(
-    "CC_IONS",
+    "IONS",
     "The ions a solute gives in water, spilled as rows of ion, count and charge.",
     [A("formula", "one formula, e.g. Al2(SO4)3")],
     "a range of rows: ion, count, charge",
-    '=CC_IONS("Al2(SO4)3") spills Al3+ 2 3 / SO4 2- 3 -2',
+    '=CELLCHEM.IONS("Al2(SO4)3") spills Al3+ 2 3 / SO4 2- 3 -2',
     ranges=False,
 )
-def cc_ions(formula=None):
+def _ions(formula=None):
     cells = flat(formula)
     if len(cells) != 1:
-        return refusal(CellchemError("CC_IONS takes one formula, not a range"))
+        return refusal(CellchemError("IONS takes one formula, not a range"))
 
     value = cells[0]
     if blank(value):
@@ -318,7 +343,7 @@ def _pairs(solutes, concentrations):
 
 
 @_register(
-    "CC_IONICSTRENGTH",
+    "IONIC_STRENGTH",
     "Ionic strength of a solution of strong electrolytes, in mol/L.",
     [
         A("solutes", "a range of formulas, e.g. NaCl, K2SO4"),
@@ -329,15 +354,15 @@ def _pairs(solutes, concentrations):
         ),
     ],
     "number, mol/L",
-    '=CC_IONICSTRENGTH("MgCl2",0.1) gives 0.3',
+    '=CELLCHEM.IONIC_STRENGTH("MgCl2",0.1) gives 0.3',
     ranges=False,
 )
-def cc_ionicstrength(solutes=None, concentrations=None):
+def _ionic_strength(solutes=None, concentrations=None):
     return aggregate(lambda s, c: float(ionic_strength(_pairs(s, c))), solutes, concentrations)
 
 
 @_register(
-    "CC_ACTIVITY",
+    "ACTIVITY_COEFFICIENT",
     "Activity coefficient of an ion (Davies, extended Debye-Huckel or limiting law).",
     [
         A("ion", "the ion, e.g. Ca2+"),
@@ -346,9 +371,9 @@ def cc_ionicstrength(solutes=None, concentrations=None):
         A("temperature_c", "temperature in degrees C, 0 to 100 (default 25)", True, ZERO_IS_AMBIGUOUS),
     ],
     "number, 0 to 1",
-    '=CC_ACTIVITY("Ca2+",0.01,"extended") gives 0.675',
+    '=CELLCHEM.ACTIVITY_COEFFICIENT("Ca2+",0.01,"extended") gives 0.675',
 )
-def cc_activity(ion=None, ionic_strength=None, model=None, temperature_c=None):
+def _activity_coefficient(ion=None, ionic_strength=None, model=None, temperature_c=None):
     def one(i, strength, m, t):
         return float(
             activity_coefficient(
@@ -363,7 +388,7 @@ def cc_activity(ion=None, ionic_strength=None, model=None, temperature_c=None):
 
 
 @_register(
-    "CC_CONDUCTIVITY",
+    "CONDUCTIVITY",
     "Estimated conductivity of a dilute solution, in uS/cm.",
     [
         A("solutes", "a range of formulas, e.g. KCl"),
@@ -371,10 +396,10 @@ def cc_activity(ion=None, ionic_strength=None, model=None, temperature_c=None):
         A("temperature_c", "15 to 35 degrees C (default 25, the meter's reference)", True, ZERO_IS_AMBIGUOUS),
     ],
     "number, uS/cm",
-    '=CC_CONDUCTIVITY("KCl",0.01) gives 1411',
+    '=CELLCHEM.CONDUCTIVITY("KCl",0.01) gives 1411',
     ranges=False,
 )
-def cc_conductivity(solutes=None, concentrations=None, temperature_c=None):
+def _conductivity(solutes=None, concentrations=None, temperature_c=None):
     def run(s, c, t):
         temp = flat(t)[0] if t is not None else None
         return float(conductivity(_pairs(s, c), 25.0 if blank(temp) else number(temp, "temperature_c")))
@@ -383,7 +408,7 @@ def cc_conductivity(solutes=None, concentrations=None, temperature_c=None):
 
 
 @_register(
-    "CC_GRAMS",
+    "GRAMS_TO_WEIGH",
     "Grams to weigh for a solution, with the purity and the hydrate on the shelf.",
     [
         A("formula", "the solute the recipe is written for, e.g. CuSO4"),
@@ -393,9 +418,9 @@ def cc_conductivity(solutes=None, concentrations=None, temperature_c=None):
         A("shelf_form", "what is on the shelf when it differs in water, e.g. CuSO4.5H2O", True),
     ],
     "number, g",
-    '=CC_GRAMS("CuSO4",0.1,"250 mL",,"CuSO4.5H2O") gives 6.242',
+    '=CELLCHEM.GRAMS_TO_WEIGH("CuSO4",0.1,"250 mL",,"CuSO4.5H2O") gives 6.242',
 )
-def cc_grams(formula=None, concentration=None, volume=None, purity=None, shelf_form=None):
+def _grams_to_weigh(formula=None, concentration=None, volume=None, purity=None, shelf_form=None):
     def one(f, c, v, p, shelf):
         return mass_for_solution(
             text(f, "formula"),
@@ -409,19 +434,19 @@ def cc_grams(formula=None, concentration=None, volume=None, purity=None, shelf_f
 
 
 @_register(
-    "CC_CONVERT",
+    "CONVERT_CONCENTRATION",
     "Convert a concentration between units (mol/L, mmol/L, g/L, mg/L, % w/v, ppm, meq/L, % w/w ...).",
     [
         A("value", "the concentration", zero=ZERO_IS_ZERO),
         A("from_unit", "its unit, e.g. % w/w"),
         A("to_unit", "the unit wanted, e.g. mol/L"),
-        A("formula", "the solute, e.g. HCl"),
+        A("formula", "the solute, e.g. HCl (not needed between mol/L and mmol/L)", True),
         A("density", "the solution's density in g/mL, for % w/w and mol/kg", True),
     ],
     "number, in to_unit",
-    '=CC_CONVERT(37,"% w/w","mol/L","HCl",1.18) gives 11.98',
+    '=CELLCHEM.CONVERT_CONCENTRATION(37,"% w/w","mol/L","HCl",1.18) gives 11.98',
 )
-def cc_convert(value=None, from_unit=None, to_unit=None, formula=None, density=None):
+def _convert_concentration(value=None, from_unit=None, to_unit=None, formula=None, density=None):
     def one(v, fu, tu, f, d):
         return float(
             convert_concentration(
@@ -437,7 +462,7 @@ def cc_convert(value=None, from_unit=None, to_unit=None, formula=None, density=N
 
 
 @_register(
-    "CC_IONBALANCE",
+    "ION_BALANCE",
     "Cation-anion balance of a water analysis, spilled as cations, anions (meq/L), error %, acceptable.",
     [
         A("ions", "a range of ions, e.g. Ca2+, HCO3-"),
@@ -445,10 +470,10 @@ def cc_convert(value=None, from_unit=None, to_unit=None, formula=None, density=N
         A("unit", "mg/L, mmol/L or meq/L (default meq/L)", True),
     ],
     "a row: cations meq/L, anions meq/L, error %, TRUE/FALSE (Standard Methods 1030 E)",
-    '=CC_IONBALANCE(A2:A7,B2:B7,"mg/L")',
+    '=CELLCHEM.ION_BALANCE(A2:A7,B2:B7,"mg/L")',
     ranges=False,
 )
-def cc_ionbalance(ions=None, concentrations=None, unit=None):
+def _ion_balance(ions=None, concentrations=None, unit=None):
     def run(i, c, u):
         names = flat(i)
         values = flat(c)
@@ -466,12 +491,47 @@ def cc_ionbalance(ions=None, concentrations=None, unit=None):
     return aggregate(run, ions, concentrations, unit)
 
 
+def _lookup(function: object) -> SheetFunction:
+    """A function of the table by the name a user types, with or without the namespace."""
+    typed = text(function, "function").upper()
+    for head in {NAMESPACE + sep for sep in SEPARATOR.values()}:
+        typed = typed.removeprefix(head)
+    spec = FUNCTIONS.get(typed)
+    if spec is None or typed == "WHY":
+        raise CellchemError(
+            f"function: {text(function, 'function')!r} is not a cellchem worksheet function; expected one of "
+            + ", ".join(n for n in FUNCTIONS if n != "WHY")
+        )
+    return spec
+
+
 @_register(
-    "CC_FULLMESSAGE",
-    "The whole message behind a short #cellchem: text in a cell.",
-    [A("text", "a cell showing #cellchem: ...")],
-    "text",
-    "=CC_FULLMESSAGE(B2)",
+    "WHY",
+    "Why a cellchem function refuses: its message for the same arguments, empty where it answers.",
+    [
+        A("function", "the function's name, e.g. MOLAR_MASS"),
+        A("first", "its first argument", True, ZERO_AS_TARGET),
+        A("second", "its second argument", True, ZERO_AS_TARGET),
+        A("third", "its third argument", True, ZERO_AS_TARGET),
+        A("fourth", "its fourth argument", True, ZERO_AS_TARGET),
+        A("fifth", "its fifth argument", True, ZERO_AS_TARGET),
+    ],
+    "text (a range of texts for a range)",
+    "=CELLCHEM.WHY(\"MOLAR_MASS\",\"NaCl2Xx\") gives unknown element symbol 'Xx' at position 6 in 'NaCl2Xx'",
+    ranges=False,
 )
-def cc_fullmessage(text=None):
-    return cellwise(lambda t: full_message(t), [text])
+def _why(function=None, first=None, second=None, third=None, fourth=None, fifth=None):
+    try:
+        spec = _lookup(function)
+    except CellchemError as exc:
+        return str(exc)
+    given = [first, second, third, fourth, fifth]
+    if any(v is not None for v in given[len(spec.arguments) :]):
+        return f"{spec.name} takes {len(spec.arguments)} arguments; more were given"
+    values = [settle_zero(v, a.zero) for v, a in zip(given, spec.arguments)]
+    return reason(spec.implementation(*values))
+
+
+def run(name: str, *args: object) -> object:
+    """Call one function of the table by its name: run("MOLAR_MASS", "NaCl")."""
+    return FUNCTIONS[name].implementation(*args)

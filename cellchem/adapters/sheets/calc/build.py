@@ -30,7 +30,7 @@ from pathlib import Path
 from xml.sax.saxutils import escape, quoteattr
 
 from .... import __version__
-from ..functions import FUNCTIONS
+from ..functions import FUNCTIONS, spelled
 from .component import IMPLEMENTATION, INTERFACE, SERVICE, method_name, parameter_name
 
 HERE = Path(__file__).resolve().parent
@@ -93,10 +93,10 @@ def addin_configuration() -> str:
     for spec in FUNCTIONS.values():
         out += [
             f'    <node oor:name={quoteattr(method_name(spec.name))} oor:op="replace">',
-            f'     <prop oor:name="DisplayName">{_value(spec.name)}</prop>',
+            f'     <prop oor:name="DisplayName">{_value(spelled(spec.name, "calc"))}</prop>',
             f'     <prop oor:name="Description">{_value(spec.summary)}</prop>',
             f'     <prop oor:name="Category">{_value("Add-In", lang=False)}</prop>',
-            f'     <prop oor:name="CompatibilityName">{_value(spec.name)}</prop>',
+            f'     <prop oor:name="CompatibilityName">{_value(spelled(spec.name, "calc"))}</prop>',
             '     <node oor:name="Parameters">',
         ]
         for a in spec.arguments:

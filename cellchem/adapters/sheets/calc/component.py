@@ -1,12 +1,16 @@
-"""The cellchem Calc add-in: the CC_* worksheet functions as UNO methods.
+"""The cellchem Calc add-in: the worksheet functions as UNO methods.
 
 This file is copied into the extension as ``cellchem_calc.py`` and runs in
-LibreOffice's own Python. Calc calls one method per function
-(``ccMolarmass`` for ``CC_MOLARMASS``, see ``method_name``); each method
-converts what Calc passes (``cells.from_calc``), calls the same function the
-Excel layer calls (``sheet_functions``) and converts the answer back
-(``cells.to_calc``). A failure shows as marked text in the cell, never as an
-error dialog.
+LibreOffice's own Python. Calc calls one method per function (``molarMass``
+for ``CELLCHEM.MOLAR_MASS``, see ``method_name``); each method converts what
+Calc passes (``cells.from_calc``), calls the same function the Excel layers
+call (``sheet_functions``) and converts the answer back (``cells.to_calc``).
+
+A cell the function cannot answer is Calc's own error value, never text: a
+single refused cell raises a UNO RuntimeException, which Calc shows as
+``#VALUE!`` (``ISERROR`` sees it), and a refused cell inside a range result
+is an error cell too (``to_calc``). Calc shows no message with an add-in's
+error, so ``CELLCHEM.WHY`` gives it.
 
 The bundled core is put first on ``sys.path`` and checked to be the one
 imported, so another cellchem or pint installed where LibreOffice's Python
@@ -23,12 +27,11 @@ IMPLEMENTATION = "org.cellchem.sheet.Functions"
 SERVICE = "com.sun.star.sheet.AddIn"
 INTERFACE = "org.cellchem.sheet.XCellchemFunctions"
 MINIMUM_PYTHON = (3, 11)
-MARK = "#cellchem: "  # the same mark as cells.MARK; used before the bundle loads
 
 
 def method_name(function: str) -> str:
-    """The UNO method behind a worksheet function: CC_MOLARMASS -> ccMolarmass."""
-    return "cc" + function.removeprefix("CC_").capitalize()
+    """The UNO method behind a worksheet function: MOLAR_MASS -> molarMass."""
+    return parameter_name(function.lower())
 
 
 def parameter_name(argument: str) -> str:
@@ -66,6 +69,7 @@ def _load_bundle(here: str) -> tuple[object, object, str | None]:
 def _make_class(sheet_functions, cells, problem: str | None):
     import unohelper
     from com.sun.star.lang import XServiceInfo
+    from com.sun.star.uno import RuntimeException
     from org.cellchem.sheet import XCellchemFunctions
 
     def method(spec):
@@ -75,9 +79,12 @@ def _make_class(sheet_functions, cells, problem: str | None):
         def call(self, *values):
             try:
                 args = [cells.from_calc(v, z) for v, z in zip(values, zeros)]
-                return cells.to_calc(implementation(*args))
-            except Exception as exc:  # a fault in cellchem itself: a marked cell, not a dialog
-                return cells.to_calc(cells.refusal(exc))
+                result = implementation(*args)
+            except Exception as exc:  # a fault in cellchem itself: an error cell, not a dialog
+                result = cells.refusal(exc)
+            if isinstance(result, cells.CellError):
+                raise RuntimeException(str(result), self)  # Calc: #VALUE!
+            return cells.to_calc(result)
 
         call.__name__ = method_name(spec.name)
         call.__doc__ = spec.summary
@@ -92,8 +99,17 @@ def _make_class(sheet_functions, cells, problem: str | None):
     if problem is None:
         for spec in sheet_functions.FUNCTIONS.values():
             namespace[method_name(spec.name)] = method(spec)
-    else:  # the bundle could not be used: every method answers with the reason
-        namespace["__getattr__"] = lambda self, name: lambda *a: ((MARK + problem,),)
+    else:  # the bundle could not be used: every function fails, and CELLCHEM.WHY tells why
+
+        def unusable(self, name):
+            def fail(*args):
+                if name == method_name("WHY"):
+                    return ((problem,),)
+                raise RuntimeException(problem, self)
+
+            return fail
+
+        namespace["__getattr__"] = unusable
     return type("CellchemFunctions", (unohelper.Base, XCellchemFunctions, XServiceInfo), namespace)
 
 
