@@ -541,3 +541,26 @@ def test_demo_ranges_spill(evaluated):
     # Ca2+ 2.0 + Mg2+ 1.0 = 3.0 meq/L; HCO3- 2.5 + Cl- 0.45 = 2.95 (worked by hand)
     assert (cations, anions) == (pytest.approx(3.0), pytest.approx(2.95)) and ok is True
     assert error == pytest.approx(100 * 0.05 / 5.95)
+
+
+def test_the_excel_lite_command_writes_the_three_files(tmp_path, capsys):
+    from cellchem import __version__
+    from cellchem.cli import main
+
+    url = f"https://stores.example.org/py/cellchem-{__version__}-py3-none-any.whl"
+    out = tmp_path / "lite"
+    assert main(["excel-lite", "--wheel-url", url, "-o", str(out)]) == 0
+    assert (out / "main.py").read_text(encoding="utf-8") == lite.main_source()
+    assert (out / "requirements.txt").read_text(encoding="utf-8") == f"{url}\nsqlite3\n"
+    assert "Access-Control-Allow-Origin" in (out / "HOW-TO.txt").read_text(encoding="utf-8")
+    # never over what is there; an address Excel's runtime cannot read, or of another version, refused
+    assert main(["excel-lite", "--wheel-url", url, "-o", str(out)]) == 2
+    assert main(["excel-lite", "--wheel-url", r"\\server\share\cellchem.whl", "-o", str(tmp_path / "b")]) == 2
+    other = url.replace(__version__, "9.9.9")
+    assert main(["excel-lite", "--wheel-url", other, "-o", str(tmp_path / "c")]) == 2
+    assert not (tmp_path / "b").exists() and not (tmp_path / "c").exists()
+    assert main(["excel-lite", "-o", str(tmp_path / "d")]) == 0  # by name, from an index
+    assert (tmp_path / "d" / "requirements.txt").read_text().splitlines()[0] == f"cellchem=={__version__}"
+    err = capsys.readouterr().err
+    for said in ("already holds main.py", "reads web addresses only", "expected it to end in"):
+        assert said in err
