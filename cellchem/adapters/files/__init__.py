@@ -14,6 +14,7 @@ MAX_PACKAGE_BYTES = 2 << 30  # declared uncompressed size of all parts together:
 MAX_MEMBERS = 10_000  # parts in one package
 MAX_TEXT_BYTES = 1 << 30  # a CSV or text export: 1 GiB
 MAX_ROWS = 1_048_576  # rows read from one sheet (the spreadsheet limit)
+MAX_SHEET_COLUMNS = 16_384  # the last column of a spreadsheet program (XFD), for columns fill adds
 MAX_COLUMNS = 256  # columns read from one sheet; columns beyond are not read (the summary says so)
 # a used range declaring more cells than this many per byte of its sheet part, and more than
 # ABSURD_MIN_CELLS in all, is refused as absurd for the file's size

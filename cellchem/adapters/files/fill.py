@@ -35,12 +35,11 @@ from .fill_common import (  # noqa: F401  (FillOptions, FillReport, derived_outp
     FillReport,
     _choose_sheet,
     _fill_from_roles,
-    _same_heading,
+    _place_columns,
     derived_output,
 )
 from .ooxml import (
     MAIN_NS,
-    MAX_SHEET_COLUMNS,
     NewCell,
     Styles,
     cell_value,
@@ -149,25 +148,9 @@ def _fill_workbook(
         for _name, _c1, c2, _r1, r2 in scan.tables:
             if r2 >= header_row:
                 start = max(start, c2 + 1)
-        folded = {_same_heading(h): i for i, h in enumerate(layout.headers) if h}
-        targets: list[tuple[FillColumn, int, bool]] = []  # column, index, new?
-        next_col = start
-        for column in options.columns:
-            existing = folded.get(_same_heading(column.header))
-            if existing is not None:
-                targets.append((column, existing, False))
-                report.notes.append(
-                    f"column {column_letter(existing)} '{column.header}' already exists: filled in place"
-                )
-            else:
-                targets.append((column, next_col, True))
-                next_col += 1
-        if next_col > MAX_SHEET_COLUMNS:
-            raise UnusableFile(
-                f"sheet '{sheet.name}' of '{src.name}' has no room for {len(options.columns)} more columns"
-                f" after column {column_letter(start - 1)} (the last column is XFD)"
-            )
-        report.columns = [(column_letter(i), c.header) for c, i, _new in targets]
+        targets = _place_columns(
+            options, layout.headers, start, f"sheet '{sheet.name}' of '{src.name}'", report
+        )
         for name, _c1, c2, _r1, r2 in scan.tables:
             if r2 >= header_row:
                 report.notes.append(

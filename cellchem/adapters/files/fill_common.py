@@ -10,10 +10,18 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ...audit import STANDARD_WEIGHTS
-from ...columns import HEADER_SEARCH_ROWS, NO_TABLE, NOT_MATCHED, ColumnOptions, Layout, LayoutError
+from ...columns import (
+    HEADER_SEARCH_ROWS,
+    NO_TABLE,
+    NOT_MATCHED,
+    ColumnOptions,
+    Layout,
+    LayoutError,
+    column_letter,
+)
 from ...errors import CellchemError
 from ...fill import FillColumn, fill_line
-from . import UnusableFile
+from . import MAX_SHEET_COLUMNS, UnusableFile
 from .audit import layout_of, sheet_columns
 
 
@@ -153,3 +161,31 @@ def _fill_from_roles(
 def _same_heading(text: str) -> str:
     """A heading compared exactly, but for case and spaces ('Formula (canonical)' is not 'Formula')."""
     return " ".join(str(text).split()).casefold()
+
+
+def _place_columns(
+    options: FillOptions, headers: list, start: int, where: str, report: FillReport
+) -> list[tuple[FillColumn, int, bool]]:
+    """(column, 0-based index, new?) for each column to fill: in place under a heading that is already
+    there (with a note), else in the next free column from ``start``. ``where`` names the sheet and
+    file in the message when the sheet has no room."""
+    folded = {_same_heading(h): i for i, h in enumerate(headers) if h}
+    targets: list[tuple[FillColumn, int, bool]] = []
+    next_col = start
+    for column in options.columns:
+        existing = folded.get(_same_heading(column.header))
+        if existing is not None:
+            targets.append((column, existing, False))
+            report.notes.append(
+                f"column {column_letter(existing)} '{column.header}' already exists: filled in place"
+            )
+        else:
+            targets.append((column, next_col, True))
+            next_col += 1
+    if next_col > MAX_SHEET_COLUMNS:
+        raise UnusableFile(
+            f"{where} has no room for {len(options.columns)} more columns after column"
+            f" {column_letter(start - 1)} (the last column is XFD)"
+        )
+    report.columns = [(column_letter(i), c.header) for c, i, _new in targets]
+    return targets

@@ -26,12 +26,11 @@ import zipfile
 from pathlib import Path
 
 from ...audit import _blank
-from ...columns import column_letter
-from ...fill import MASS, FillColumn
+from ...fill import MASS
 from . import UnusableFile
-from .fill_common import FillOptions, FillReport, _choose_sheet, _fill_from_roles, _same_heading
+from .fill_common import FillOptions, FillReport, _choose_sheet, _fill_from_roles, _place_columns
 from .ods import A_TABLE_STYLE, OdsBook, OdsFacts, OdsTable, RowRecord, ScanOptions, check_ods, scan_content
-from .ods_write import MAX_SHEET_COLUMNS, Allowed, NewCell, rewrite_content, verify_package, write_package
+from .ods_write import Allowed, NewCell, rewrite_content, verify_package, write_package
 
 MASS_DECIMALS = 2  # a molar mass is shown with two decimals, as in the .xlsx fill
 
@@ -73,25 +72,7 @@ def fill_ods(
         header_row = layout.header_index + 1
         report.header_row = header_row
         start = _used_columns(zin, facts.content, table, shown)
-        folded = {_same_heading(h): i for i, h in enumerate(layout.headers) if h}
-        targets: list[tuple[FillColumn, int, bool]] = []  # column, index, new?
-        next_col = start
-        for column in options.columns:
-            existing = folded.get(_same_heading(column.header))
-            if existing is not None:
-                targets.append((column, existing, False))
-                report.notes.append(
-                    f"column {column_letter(existing)} '{column.header}' already exists: filled in place"
-                )
-            else:
-                targets.append((column, next_col, True))
-                next_col += 1
-        if next_col > MAX_SHEET_COLUMNS:
-            raise UnusableFile(
-                f"sheet '{table.name}' of {shown} has no room for {len(options.columns)} more columns after"
-                f" column {column_letter(start - 1)} (the last column is XFD)"
-            )
-        report.columns = [(column_letter(i), c.header) for c, i, _new in targets]
+        targets = _place_columns(options, layout.headers, start, f"sheet '{table.name}' of {shown}", report)
         roles = layout.roles
         role_columns = set(roles.values())
         own = {i for _c, i, _new in targets}

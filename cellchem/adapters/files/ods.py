@@ -54,6 +54,9 @@ from xml.parsers import expat
 
 from ...audit import NO_SAVED_VALUE
 from . import MAX_CELL_CHARS, MAX_COLUMNS, MAX_PART_BYTES, MAX_ROWS, OTHER_CELLS, UnusableFile, one_line
+from .parts import CHUNK as _CHUNK
+from .parts import SheetInfo
+from .parts import safe_parser as _safe_parser
 
 ODS_MEDIA_TYPE = "application/vnd.oasis.opendocument.spreadsheet"
 CONTENT = "content.xml"
@@ -64,7 +67,6 @@ MAX_TOKEN_BYTES = 4 << 20  # one tag, comment or processing instruction: 4 MiB
 SPARSE_WINDOW = 64 << 20  # every 64 MiB of a part must hold at least
 SPARSE_MIN_TAGS = SPARSE_WINDOW >> 10  # one tag per KiB on average (a sheet has one every 20 to 100 bytes)
 MAX_REPEAT = 1 << 40  # a repeat count beyond any sheet is read as this many
-_CHUNK = 1 << 16
 SEP = " "  # expat's separator between a namespace and a local name
 
 NS_OFFICE = "urn:oasis:names:tc:opendocument:xmlns:office:1.0"
@@ -152,36 +154,9 @@ _RESAVE = "open it in LibreOffice Calc and save it again as .ods"
 # ---------------------------------------------------------------------------
 
 
-def _forbid_doctype(*_args: object) -> None:
-    from defusedxml import DTDForbidden
-
-    raise DTDForbidden(None, None, None)
-
-
-def _forbid_entity(*_args: object) -> None:
-    from defusedxml import EntitiesForbidden
-
-    raise EntitiesForbidden(None, None, None, None, None, None)
-
-
-def _forbid_external(*_args: object) -> None:
-    from defusedxml import ExternalReferenceForbidden
-
-    raise ExternalReferenceForbidden(None, None, None, None)
-
-
 def safe_parser() -> expat.XMLParserType:
-    """An expat parser with namespaces (names as ``uri local``) that refuses
-    what defusedxml refuses: a document type, entity declarations, external
-    references."""
-    p = expat.ParserCreate(namespace_separator=SEP)
-    p.StartDoctypeDeclHandler = _forbid_doctype
-    p.EntityDeclHandler = _forbid_entity
-    p.UnparsedEntityDeclHandler = _forbid_entity
-    p.ExternalEntityRefHandler = _forbid_external
-    p.buffer_text = True
-    p.buffer_size = _CHUNK
-    return p
+    """The safe parser (``parts.safe_parser``), names as ``uri local``."""
+    return _safe_parser(SEP)
 
 
 def xml_chunks(zf: zipfile.ZipFile, part: str, shown: str) -> Iterator[bytes]:
@@ -304,12 +279,6 @@ def repeat_count(text: str | None) -> int:
 # ---------------------------------------------------------------------------
 # The package
 # ---------------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class SheetInfo:
-    name: str
-    state: str  # "visible" or "hidden"
 
 
 @dataclass(frozen=True)

@@ -68,7 +68,6 @@ from .ods import (
 )
 
 MAX_ROW_BYTES = 16 << 20  # one row of the sheet being filled, held while it is rebuilt
-MAX_SHEET_COLUMNS = 16_384  # the last column of a spreadsheet program (XFD)
 MAX_HELD_BYTES = 64 << 20  # bytes held back before a place the writer changes
 _VALUE_ATTRS = frozenset(
     qn(NS_OFFICE, n)

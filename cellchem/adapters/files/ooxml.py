@@ -48,7 +48,6 @@ SHARED_STRINGS_REL = "http://schemas.openxmlformats.org/officeDocument/2006/rela
 STYLES_REL = "http://schemas.openxmlformats.org/officeDocument/2006/relationships/styles"
 TABLE_REL = "http://schemas.openxmlformats.org/officeDocument/2006/relationships/table"
 WORKSHEET_CT = "application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"
-MAX_SHEET_COLUMNS = 16384
 _C = f"{{{MAIN_NS}}}c"
 _V = f"{{{MAIN_NS}}}v"
 _F = f"{{{MAIN_NS}}}f"

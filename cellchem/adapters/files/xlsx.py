@@ -27,15 +27,16 @@ import datetime as _dt
 import re
 import zipfile
 from collections.abc import Iterator
-from dataclasses import dataclass
 from pathlib import Path
 from xml.parsers import expat
 
 from ...audit import NO_SAVED_VALUE, NOT_RECALCULATED
 from . import MAX_CELL_CHARS, MAX_COLUMNS, MAX_PART_BYTES, MAX_ROWS, OTHER_CELLS, UnusableFile, one_line
+from .parts import CHUNK as _CHUNK
+from .parts import SheetInfo
+from .parts import safe_parser as _safe_parser
 
 MAX_SHARED_CHARS = 1 << 28  # characters kept from the shared-string table in all (256 Mi)
-_CHUNK = 1 << 16
 _MAIN = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
 _SEP = "}"
 
@@ -51,36 +52,33 @@ _DATE_FORMATS = frozenset({14, 15, 16, 17, 18, 19, 20, 21, 22, 45, 46, 47})  # E
 _QUOTED = re.compile(r'"[^"]*"|\[[^\]]*\]|\\.|_.|\*.')
 
 
-def _forbid(*_args: object) -> None:
-    from defusedxml import DTDForbidden
-
-    raise DTDForbidden(None, None, None)
-
-
-def _forbid_entity(*_args: object) -> None:
-    from defusedxml import EntitiesForbidden
-
-    raise EntitiesForbidden(None, None, None, None, None, None)
-
-
-def _forbid_external(*_args: object) -> None:
-    from defusedxml import ExternalReferenceForbidden
-
-    raise ExternalReferenceForbidden(None, None, None, None)
-
-
 def safe_parser(namespaces: bool = True) -> expat.XMLParserType:
-    """An expat parser that refuses what defusedxml refuses: a document type,
-    entity declarations, external references. ``namespaces``: element names
+    """The safe parser (``parts.safe_parser``); ``namespaces``: element names
     as '{uri}}local' (else as written, with their prefixes)."""
-    p = expat.ParserCreate(namespace_separator=_SEP) if namespaces else expat.ParserCreate()
-    p.StartDoctypeDeclHandler = _forbid
-    p.EntityDeclHandler = _forbid_entity
-    p.UnparsedEntityDeclHandler = _forbid_entity
-    p.ExternalEntityRefHandler = _forbid_external
-    p.buffer_text = True
-    p.buffer_size = _CHUNK
-    return p
+    return _safe_parser(_SEP if namespaces else None)
+
+
+def cell_value(kind: str, raw: str, is_date: bool, strings: list[str], date1904: bool) -> object:
+    """The value of a cell that has a value: ``kind`` is its ``t`` attribute, ``raw`` the text of its
+    ``v`` (or inline string); numbers as int where written whole, dates by the cell's number format."""
+    if kind == "s":
+        try:
+            return strings[int(raw)]
+        except (ValueError, IndexError):
+            return None
+    if kind in ("inlineStr", "str", "e"):
+        return raw
+    if kind == "b":
+        return raw.strip() == "1"
+    try:
+        number = float(raw)
+    except ValueError:
+        return raw
+    if is_date:
+        return _as_date(number, date1904)
+    if number.is_integer() and "." not in raw and "e" not in raw and "E" not in raw:
+        return int(number)
+    return number
 
 
 def _chunks(zin: zipfile.ZipFile, part: str, shown: str) -> Iterator[bytes]:
@@ -240,13 +238,6 @@ def _as_date(number: float, date1904: bool) -> object:
         return number
 
 
-@dataclass(frozen=True)
-class SheetInfo:
-    name: str
-    state: str  # "visible", "hidden" or "veryHidden"
-    part: str = ""
-
-
 class RowStream:
     """The rows of one sheet, streamed: ``(row number, values)``.
 
@@ -374,35 +365,11 @@ class RowStream:
                     return
                 wanted = False
                 collecting = False
-                value: object = None
-                raw = "".join(text) if has_value else ""
-                kind = cell_kind
-                if kind == "s":
-                    if has_value:
-                        try:
-                            value = strings[int(raw)]
-                        except (ValueError, IndexError):
-                            value = None
-                elif kind == "inlineStr":
-                    value = raw if has_value else None
-                elif not has_value:
-                    value = None
-                elif kind in ("str", "e"):
-                    value = raw
-                elif kind == "b":
-                    value = raw.strip() == "1"
-                else:
-                    try:
-                        number = float(raw)
-                    except ValueError:
-                        value = raw
-                    else:
-                        if cell_style in dates:
-                            value = _as_date(number, date1904)
-                        elif number.is_integer() and "." not in raw and "e" not in raw and "E" not in raw:
-                            value = int(number)
-                        else:
-                            value = number
+                value = (
+                    cell_value(cell_kind, "".join(text), cell_style in dates, strings, date1904)
+                    if has_value
+                    else None
+                )
                 if has_formula:
                     if value is None or value == "":
                         value = NO_SAVED_VALUE

@@ -35,7 +35,7 @@ from xml.sax.saxutils import escape
 from ...columns import column_letter
 from . import MAX_CELL_CHARS, MAX_COLUMNS, UnusableFile, one_line
 from .ooxml import NewCell
-from .xlsx import _MAIN, Book, _as_date, _chunks, _letters, _row_number, safe_parser
+from .xlsx import _MAIN, Book, _chunks, _letters, _row_number, cell_value, safe_parser
 
 MAX_ROW_BYTES = 64 << 20  # one row of a sheet held while its end is looked for
 
@@ -235,31 +235,9 @@ def splice_sheet(
                 return
             wanted = False
             p.CharacterDataHandler = None
-            raw = "".join(text)
-            value: object = None
-            if not has_value:
-                value = None
-            elif kind == "s":
-                try:
-                    value = strings[int(raw)]
-                except (ValueError, IndexError):
-                    value = None
-            elif kind in ("inlineStr", "str", "e"):
-                value = raw
-            elif kind == "b":
-                value = raw.strip() == "1"
-            else:
-                try:
-                    number = float(raw)
-                except ValueError:
-                    value = raw
-                else:
-                    if cell_style in dates:
-                        value = _as_date(number, date1904)
-                    elif number.is_integer() and "." not in raw and "e" not in raw.lower():
-                        value = int(number)
-                    else:
-                        value = number
+            value = (
+                cell_value(kind, "".join(text), cell_style in dates, strings, date1904) if has_value else None
+            )
             if formula:
                 if value is None or value == "":
                     value = NO_SAVED_VALUE
