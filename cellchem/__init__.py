@@ -20,6 +20,7 @@ from .ionbalance import IonBalance, ion_balance
 from .ions import Ion
 from .mass import composition, mass_fraction, molar_mass
 from .names import NameReading, formula_from_name, name_from_formula, read_name
+from .packs import Pack, read_pack
 from .reading import find_ion, parse_formula, salt_formula
 from .recipes import (
     Dilution,
@@ -29,7 +30,9 @@ from .recipes import (
     dilution,
     mass_for_solution,
 )
+from .sds import check_hazards, check_un, ec_is_valid, read_ec, read_statements, read_un
 from .solutions import Dissociation, Value, ionic_strength, ions_of, solubility
+from .store import StoreLine, concern, duplicates, segregation, totals
 from .substances import Substance, find_substances, substance
 
 __version__ = "0.1.0"
@@ -44,18 +47,25 @@ __all__ = [
     "Ion",
     "IonBalance",
     "NameReading",
+    "Pack",
     "Recipe",
+    "StoreLine",
     "Substance",
     "Value",
     "activity_coefficient",
     "audit_rows",
     "cas_is_valid",
     "charge_balance",
+    "check_hazards",
+    "check_un",
     "composition",
     "concentration_from_mass",
+    "concern",
     "conductivity",
     "convert_concentration",
     "dilution",
+    "duplicates",
+    "ec_is_valid",
     "element",
     "find_ion",
     "find_substances",
@@ -71,8 +81,14 @@ __all__ = [
     "net_charge",
     "oxidation_state",
     "parse_formula",
+    "read_ec",
     "read_name",
+    "read_pack",
+    "read_statements",
+    "read_un",
     "salt_formula",
+    "segregation",
     "solubility",
     "substance",
+    "totals",
 ]

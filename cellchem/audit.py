@@ -16,7 +16,7 @@ from functools import cache
 
 from .cas import read_cas
 from .charge import ORGANIC, RADICAL, charge_balance
-from .columns import Layout, find_layout
+from .columns import SDS_ROLES, Layout, find_layout
 from .elements import all_elements, element
 from .errors import CellchemError
 from .formula import Formula, case_readings
@@ -1286,14 +1286,71 @@ def audit_row(
     key = (typed(*cells), tuple(layout.roles.items()), mass_allowance, decimal_comma, weights)
     done = _ROWS.get(
         key,
-        lambda: _audit_row(
-            cells, layout, 0, mass_allowance=mass_allowance, decimal_comma=decimal_comma, weights=weights
+        lambda: _with_sds(
+            cells,
+            layout,
+            _audit_row(
+                cells, layout, 0, mass_allowance=mass_allowance, decimal_comma=decimal_comma, weights=weights
+            ),
         ),
     )
     return RowResult(row, done.status, done.reason, done.findings, done.columns, done.result)
 
 
 _ROWS: Memo[RowResult] = Memo(50_000)
+
+# the check and role of each field of an SDS finding (cellchem.sds)
+_SDS_FIELDS = {
+    "ec": ("ec", "ec"),
+    "un": ("un", "un"),
+    "hazard statements": ("hazard-statements", "hazard_statements"),
+    "precautionary statements": ("precautionary-statements", "precautionary_statements"),
+    "signal word": ("signal-word", "signal_word"),
+    "pictograms": ("pictograms", "pictograms"),
+}
+
+
+def _with_sds(cells: Sequence[object], layout: Layout, done: RowResult) -> RowResult:
+    """The row's result with the checks of its safety-data-sheet columns added (EC number, UN
+    number, H and P statements, signal word, pictograms), where the table has such columns."""
+    roles = layout.roles
+    if done.status == BLANK or not any(role in roles for role in SDS_ROLES):
+        return done
+    from .sds import check_ec, check_hazards, check_un
+
+    def cell(role: str) -> str | None:
+        v = _cell(cells, roles.get(role))
+        if _blank(v) or isinstance(v, UnsavedValue):
+            return None
+        return str(int(v)) if isinstance(v, float) and v.is_integer() else str(v).strip()
+
+    found = []
+    found += _sds_findings(check_ec(cell("ec")))
+    un = cell("un")
+    if un is not None:
+        formula = done.result.formula if done.result is not None else None
+        found += _sds_findings(
+            check_un(un, cas=cell("cas"), formula=None if formula is None else str(formula))
+        )
+    found += _sds_findings(
+        check_hazards(
+            cell("hazard_statements"),
+            cell("precautionary_statements"),
+            cell("signal_word"),
+            cell("pictograms") if "pictograms" in roles else None,
+        )
+    )
+    if not found:
+        return done
+    letters = done.columns or layout.letters
+    return RowResult(done.row, done.status, done.reason, done.findings + tuple(found), letters, done.result)
+
+
+def _sds_findings(found) -> list[Finding]:
+    return [
+        Finding(_SDS_FIELDS[f.field][0], f.severity, f.message, f.suggestion or "", _SDS_FIELDS[f.field][1])
+        for f in found
+    ]
 
 
 def _audit_row(

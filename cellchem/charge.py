@@ -35,9 +35,12 @@ from .formula import Atom, Formula, Group, Item, Number, Part, render_items
 from .ions import Ion, catalog, counts_key, ions_in
 from .reading import as_formula, canonical, parse_formula
 from .solver import (
+    _CARBIDE_LIKE as _CARBIDES,
+)
+from .solver import (
     Option,
     Share,
-    allows_oxo_ions,
+    barred_anions,
     bars_carbide,
     best_reading,
     covered,
@@ -331,6 +334,7 @@ def _salt_by_counts(key: tuple[tuple[str, Number], ...], target: int) -> tuple[S
     metals = {s: n for s, n in counts.items() if s != "H" and _forms_cation(s) and element(s).is_metal}
     if not metals or any(not isinstance(n, int) for n in counts.values()):
         return None
+    barred = barred_anions(counts)  # the partner rules of the solver hold here too
     rest = {s: n for s, n in counts.items() if s not in metals}
     most_water = min(rest.get("H", 0) // 2, rest.get("O", 0), 30)
     for water in range(most_water + 1):
@@ -350,6 +354,8 @@ def _salt_by_counts(key: tuple[tuple[str, Number], ...], target: int) -> tuple[S
                 continue
             first = next(iter(left))
             for anion in _anions_by_elements().get(frozenset(left), []):
+                if anion.text in barred:
+                    continue
                 a_counts = anion.formula.counts
                 m, r = divmod(left[first], a_counts[first])
                 if r or m == 0 or any(left[s] != m * a_counts[s] for s in a_counts):
@@ -421,14 +427,14 @@ def _why_not(part: Part, target: int) -> str:
     items = part.items
     text = render_items(items)
     counts = item_counts(items)
-    reach = covered(items, bars_carbide(counts))
+    reach = covered(items, _CARBIDES if bars_carbide(counts) else frozenset())
     if reach < len(items):
         rest = render_items(items[reach:])
         before = render_items(items[:reach])
         after = f" after '{before}'" if before else ""
         return f"no ion in the catalog matches '{rest}'{after}, so {text} cannot be split into ions"
     # closest reading: smallest |charge - target|
-    sols = {**readings_by_charge(items, False, False, True, allows_oxo_ions(counts), bars_carbide(counts))}
+    sols = {**readings_by_charge(items, False, False, True, barred_anions(counts))}
     charge = min(sols, key=lambda c: (abs(c - target), sols[c][0]))
     shares = _flatten(sols[charge][1])
     phrases = []

@@ -432,7 +432,9 @@ def build_parser() -> argparse.ArgumentParser:
         action="append",
         metavar="[SHEET:]ROLE=HEADER_OR_LETTER",
         help="say which column holds a role when its heading is not recognised; roles: name, formula,"
-        " molar_mass, cas, concentration, quantity, unit. Without SHEET it applies to every sheet (a"
+        " molar_mass, cas, concentration, quantity, unit, count, location, ec, un, signal_word,"
+        " hazard_statements (or h), precautionary_statements (or p), pictograms, storage_class."
+        " Without SHEET it applies to every sheet (a"
         " sheet that lacks the heading is noted as not matched, not audited); with SHEET only to that"
         " sheet, and it wins there. Repeatable, e.g. --column formula=C --column 'molar_mass=Mol. Wt.'"
         " --column 'Old stock:formula=B'",
@@ -588,6 +590,44 @@ def build_parser() -> argparse.ArgumentParser:
     )
     calc.set_defaults(run=_cmd_calc_extension)
 
+    survey = sub.add_parser(
+        "survey",
+        help="the whole store: totals per substance, duplicates, elements of concern, what should not share"
+        " a shelf",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+        description=(
+            "Read every line of the files given (as the audit reads them) and answer what no single line\n"
+            "answers: how much of each substance is held across sheets and files (pack sizes as suppliers\n"
+            "print them), the same substance twice at one location, the mass on site of elements and ions\n"
+            "of concern, and families of substances that should not share a location. Files are only\n"
+            "read.\n\n"
+            "An empty list of families means only that these rules found nothing: the supplier's SDS\n"
+            "(sections 7 and 10), local regulations and the site's safety officer decide.\n\n"
+            "Example: cellchem survey workbooks/demo-store.xlsx -o survey.xlsx --json survey.json\n"
+            "         cellchem survey stock.xlsx --concern Hg,Pb,Cr(VI),CN\n\n"
+            "Exit codes: 0 nothing to act on, 1 families that should not share a location or audit\n"
+            "errors, 2 a file or the command line could not be used."
+        ),
+    )
+    survey.add_argument("files", nargs="+", metavar="FILE", help="workbooks or CSV/TXT exports of the store")
+    survey.add_argument(
+        "--concern",
+        metavar="LIST",
+        help="the elements and ions of concern, comma-separated (default: Hg, Pb, Cd, Cr(VI), As, Ba, Se,"
+        " Ag, Tl, Be, Ni), e.g. --concern Hg,Pb,Cr(VI),CN",
+    )
+    survey.add_argument("-o", "--output", metavar="PATH.xlsx", help="write the survey as a new workbook")
+    survey.add_argument("--json", metavar="PATH.json", help="write the survey as a new JSON file")
+    survey.add_argument("--sheet", metavar="NAME", help="read only this sheet of each workbook")
+    survey.add_argument("--hidden", action="store_true", help="also read hidden sheets")
+    survey.add_argument(
+        "--column", action="append", metavar="[SHEET:]ROLE=HEADER_OR_LETTER", help="as for audit"
+    )
+    survey.add_argument("--header-row", action="append", metavar="[SHEET:]N", help="as for audit")
+    survey.add_argument("--encoding", metavar="NAME", help="as for audit")
+    survey.add_argument("--delimiter", metavar="CHAR", help="as for audit")
+    survey.set_defaults(run=_cmd_survey)
+
     lite = sub.add_parser(
         "excel-lite",
         help="write main.py and requirements.txt for the worksheet functions in Excel through xlwings Lite",
@@ -610,6 +650,65 @@ def build_parser() -> argparse.ArgumentParser:
     )
     lite.set_defaults(run=_cmd_excel_lite)
     return parser
+
+
+def _cmd_survey(args: argparse.Namespace) -> int:
+    import json
+
+    from .adapters.files import UnusableFile
+    from .adapters.files.audit import Options
+    from .adapters.files.precheck import require_defusedxml
+    from .adapters.files.reports import write_tables
+    from .adapters.files.survey import as_json, summary_rows, survey, text_report, workbook_sheets
+    from .adapters.files.writer import write_atomically
+    from .store import DEFAULT_CONCERN
+
+    try:
+        require_defusedxml()
+        column_options = _column_options(args)
+    except (CellchemError, UnusableFile) as exc:
+        raise UsageError(str(exc)) from None
+    if args.output and Path(args.output).suffix.lower() != ".xlsx":
+        raise UsageError(f"-o '{args.output}': the survey workbook must be an .xlsx file")
+    if args.json and Path(args.json).suffix.lower() != ".json":
+        raise UsageError(f"--json '{args.json}': the name must end in .json")
+    for target in (args.output, args.json):
+        for f in args.files:
+            if target and Path(target).resolve() == Path(f).resolve():
+                raise UsageError(f"'{target}' would overwrite the input '{f}'; choose another name")
+    parts = (
+        DEFAULT_CONCERN
+        if not args.concern
+        else tuple(p.strip() for p in args.concern.split(",") if p.strip())
+    )
+    options = Options(
+        columns=dict(column_options.general),
+        sheet=args.sheet,
+        hidden=args.hidden,
+        encoding=args.encoding,
+        delimiter=args.delimiter,
+        column_options=column_options,
+    )
+    try:
+        result = survey(args.files, options, parts)
+    except CellchemError as exc:
+        raise UsageError(f"--concern: {exc}") from None
+    out = sys.stdout
+    out.write("\n".join(text_report(result)) + "\n\n")
+    lines = _summary_lines(result.run, NOTE, _unused_sheet_options(result.run, column_options))
+    out.write("audit of the same lines (cellchem audit FILE prints its findings):\n")
+    out.write("\n".join(lines) + "\n")
+    ordered = report_order(result.run, result.run.findings)
+    if args.output:
+        write_tables(args.output, workbook_sheets(result, ordered), summary_rows(result))
+        out.write(f"survey workbook written: {args.output}\n")
+    if args.json:
+        data = json.dumps(as_json(result), ensure_ascii=False, indent=1).encode("utf-8")
+        write_atomically(Path(args.json), lambda fh: fh.write(data))
+        out.write(f"survey JSON written: {args.json}\n")
+    if result.run.unusable:
+        return EXIT_USAGE
+    return EXIT_FINDINGS if result.conflicts or result.run.summary.severities[ERROR] else EXIT_CLEAN
 
 
 def _cmd_excel_lite(args: argparse.Namespace) -> int:

@@ -20,7 +20,26 @@ from functools import cache, cached_property
 from .errors import CellchemError
 from .tables import read_table
 
-ROLES = ("name", "formula", "molar_mass", "cas", "concentration", "quantity", "unit")
+ROLES = (
+    "name",
+    "formula",
+    "molar_mass",
+    "cas",
+    "concentration",
+    "quantity",
+    "unit",
+    "count",
+    "location",
+    "ec",
+    "un",
+    "signal_word",
+    "hazard_statements",
+    "precautionary_statements",
+    "pictograms",
+    "storage_class",
+)
+# the columns of a safety-data-sheet summary beside a line's identity, checked by cellchem.sds
+SDS_ROLES = ("ec", "un", "signal_word", "hazard_statements", "precautionary_statements", "pictograms")
 ROLE_WORDS = {  # how a user may write a role on the command line
     "name": "name",
     "formula": "formula",
@@ -32,6 +51,15 @@ ROLE_WORDS = {  # how a user may write a role on the command line
     "concentration": "concentration",
     "quantity": "quantity",
     "unit": "unit",
+    **{
+        role: role for role in ("count", "location", "ec", "un", "signal_word", "storage_class", "pictograms")
+    },
+    "signal-word": "signal_word",
+    "h": "hazard_statements",
+    "hazard_statements": "hazard_statements",
+    "p": "precautionary_statements",
+    "precautionary_statements": "precautionary_statements",
+    "storage-class": "storage_class",
 }
 HEADER_SEARCH_ROWS = 20
 MAX_HEADER_ROW = 1_048_576  # the last row of a sheet

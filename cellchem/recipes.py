@@ -14,6 +14,7 @@ regulations and the site's safety officer decide. Every recipe says so.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 from functools import cache, lru_cache
 
@@ -21,6 +22,7 @@ from .errors import CellchemError, ChemistryError
 from .formula import Formula, Number
 from .ions import counts_key
 from .mass import molar_mass
+from .packs import density_row, listed_strengths
 from .reading import parse_formula
 from .solutions import (
     STRONG_ACID,
@@ -258,25 +260,47 @@ def convert_concentration(
             ``'1.18 g/mL'``); needed, and never assumed, to go between % w/w or
             mol/kg and a unit per volume. Between % w/w and mol/kg it is not
             needed: both are per mass, m = w / ((1 - w) M) and w = m M / (1 + m M).
+            A given density always wins. Without one, a % w/w of a reagent that
+            ``data/densities.csv`` lists (concentrated HCl, H2SO4, HNO3, H3PO4,
+            HClO4, acetic acid, ammonia solution, hydrogen peroxide) at exactly
+            that strength takes the table's density at 20 °C, with a note saying
+            so; a strength the table does not list is refused (no interpolation).
+            For such a reagent a plain ``'%'`` is read as % w/w, the way suppliers
+            state these strengths, with a note; for any other solute a plain
+            ``'%'`` is refused as before (w/w or w/v is not said).
 
     Returns:
-        A Value in ``to_unit`` with notes for any assumption (ppm as mg/L).
+        A Value in ``to_unit`` with notes for any assumption (ppm as mg/L, a
+        density from the table, '%' read as % w/w).
 
     >>> round(convert_concentration(37, "% w/w", "mol/L", "HCl", density=1.18), 2)
     11.98
+    >>> round(convert_concentration(37, "%", "mol/L", "HCl"), 2)  # 1.184 g/mL from the table
+    12.02
     >>> round(convert_concentration(10, "% w/w", "mol/kg", "NaCl"), 3)
     1.901
     >>> convert_concentration(1, "mol/L", "meq/L", "CaCl2")
     2000.0
     """
-    number, source = read_quantity(value, from_unit, "concentration")
+    percent_note = ""
+    bare = _bare_percent(value, from_unit)
+    if bare is not None and formula is not None and listed_strengths(_reagent(formula)):
+        # a plain '%' for a reagent of the density table is % w/w, as suppliers state the
+        # strength of concentrated acids, ammonia and hydrogen peroxide (common practice)
+        number, source = bare, read_unit("% w/w")
+        percent_note = (
+            f"'%' read as % w/w, the way suppliers state the strength of {_reagent(formula).text()} as sold"
+            " (a reagent of cellchem's density table); give '% w/v' if a mass per volume is meant"
+        )
+    else:
+        number, source = read_quantity(value, from_unit, "concentration")
     target = read_unit(to_unit)
     for r in (source, target):
         if r.kind not in CONCENTRATION_KINDS:
             raise CellchemError(f"unit {r.text!r} is {r.kind}, not a concentration")
     if number < 0:
         raise CellchemError(f"concentration: {value!r} is negative")
-    notes = tuple(n for n in (source.note, target.note) if n)
+    notes = tuple(n for n in (percent_note, source.note, target.note) if n)
     base = number * source.factor
     if source.kind == target.kind:
         return Value(_round(base / target.factor), target.text, notes)
@@ -290,9 +314,55 @@ def convert_concentration(
     if {source.kind, target.kind} == {MASS_FRACTION, AMOUNT_PER_MASS}:
         out = _mass_fraction_molality(base, source.kind, f, value)
         return Value(_round(out / target.factor), target.text, notes)
+    if source.kind == MASS_FRACTION and density is None:
+        density, table_note = _table_density(f, base, value)
+        notes += (table_note,) if table_note else ()
     molar, _ = _to_molar(base, source.kind, f, density, what)
     out = _from_molar(molar, target.kind, f, density, what)
     return Value(_round(out / target.factor), target.text, notes)
+
+
+_BARE_PERCENT = re.compile(r"^\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*%\s*$")
+
+
+def _bare_percent(value, from_unit: str) -> float | None:
+    """The number of a concentration written with a plain '%' (as the value's text or as
+    the unit of a number), else None."""
+    if isinstance(value, str):
+        m = _BARE_PERCENT.match(value)
+        if m:
+            return float(m.group(1))
+        if re.match(r"^\s*[+-]?(?:\d+(?:\.\d*)?|\.\d+)\s*$", value) and isinstance(from_unit, str):
+            return float(value) if from_unit.strip() == "%" else None
+        return None
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return None
+    return float(value) if isinstance(from_unit, str) and from_unit.strip() == "%" else None
+
+
+def _reagent(formula: str | Formula) -> Formula:
+    try:
+        return _read_solute(formula)
+    except CellchemError:
+        return parse_formula("H2O")  # not a reagent of the density table: the plain '%' stays refused
+
+
+def _table_density(f: Formula, fraction: float, given) -> tuple[float | None, str]:
+    """The density of a reagent at a strength from the density table, and the note that
+    says so; (None, '') for a reagent the table does not list (the density stays needed)."""
+    listed = listed_strengths(f)
+    if not listed:
+        return None, ""
+    percent = fraction * 100.0
+    row = density_row(f, _round(percent))
+    if row is None:
+        shown = ", ".join(f"{s:g}" for s in listed)
+        raise CellchemError(
+            f"concentration {given!r} ({_round(percent):g} % w/w {f.text()}) needs the solution's density:"
+            f" cellchem's density table lists {f.text()} at {shown} % w/w only (no interpolation); pass"
+            " density=... (g/mL)"
+        )
+    return row.density, f"density {row.text}"
 
 
 def _mass_fraction_molality(base: float, kind: str, f: Formula, given) -> float:

@@ -86,16 +86,13 @@ def _run_options(
     end: int,
     inside: bool,
     mixed: bool,
-    oxo: bool = True,
-    carbon: bool = False,
+    barred: frozenset[str] = frozenset(),
 ) -> list[Option]:
     run = items[start:end]
     counts = item_counts(run)
     options: list[Option] = []
     for ion, k in ions_in(counts):
-        if not oxo and ion.is_homonuclear and ion.text in ("O2", "O3"):
-            continue
-        if carbon and ion.charge < 0 and ion.text in _CARBIDE_LIKE:
+        if ion.charge < 0 and ion.text in barred:
             continue
         options.append(
             Option(
@@ -118,7 +115,7 @@ def _run_options(
                 options.append(Option(start, end, total, (0, 1, n), shares))
     if len(run) == 1 and isinstance(run[0], Group) and not options:
         group = run[0]
-        for charge, best in readings_by_charge(group.items, True, mixed, True, True, carbon).items():
+        for charge, best in readings_by_charge(group.items, True, mixed, True, _group_barred(barred)).items():
             score, path = best
             label = render_items((Group(group.items, 1, group.bracket),))
             shares = (Share(_label(label, charge), charge, group.count, None),)
@@ -148,13 +145,13 @@ def readings_by_charge(
     inside: bool,
     mixed: bool,
     whole: bool = True,
-    oxo: bool = True,
-    carbon: bool = False,
+    barred: frozenset[str] = frozenset(),
 ) -> dict[int, Solution]:
     """For every reachable total charge, the best reading of ``items``.
 
     ``whole=False`` leaves out the readings of all the items as one ion, to
-    look inside a catalog complex ion at its metal and ligands."""
+    look inside a catalog complex ion at its metal and ligands. ``barred``: the
+    anions not read here (``barred_anions``)."""
     n = len(items)
     dp: list[dict[int, Solution]] = [{} for _ in range(n + 1)]
     dp[0][0] = ((0, 0, 0), ())
@@ -164,7 +161,7 @@ def readings_by_charge(
         for j in range(i + 1, n + 1):
             if not whole and i == 0 and j == n:
                 continue
-            options = _run_options(items, i, j, inside, mixed, oxo, carbon)
+            options = _run_options(items, i, j, inside, mixed, barred)
             for charge, (score, path) in dp[i].items():
                 for opt in options:
                     c = charge + opt.charge
@@ -175,7 +172,7 @@ def readings_by_charge(
     return dp[n]
 
 
-def covered(items: tuple[Item, ...], carbon: bool = False) -> int:
+def covered(items: tuple[Item, ...], barred: frozenset[str] = frozenset()) -> int:
     """How many leading items some reading covers (for messages)."""
     n = len(items)
     reach = [False] * (n + 1)
@@ -185,7 +182,7 @@ def covered(items: tuple[Item, ...], carbon: bool = False) -> int:
         if not reach[i]:
             continue
         for j in range(i + 1, n + 1):
-            if _run_options(items, i, j, False, False, True, carbon):
+            if _run_options(items, i, j, False, False, barred):
                 reach[j] = True
                 best = max(best, j)
     return best
@@ -194,25 +191,24 @@ def covered(items: tuple[Item, ...], carbon: bool = False) -> int:
 def best_reading(items: tuple[Item, ...], target: int) -> Solution | None:
     """The best reading of ``items`` as ions of total charge ``target`` (mixed
     valence only where nothing else gives it), or None."""
-    counts = item_counts(items)
-    oxo = allows_oxo_ions(counts)
-    carbon = bars_carbide(counts)
-    found = readings_by_charge(items, False, False, True, oxo, carbon).get(target)
+    barred = barred_anions(item_counts(items))
+    found = readings_by_charge(items, False, False, True, barred).get(target)
     if found is None:
-        found = readings_by_charge(items, False, True, True, oxo, carbon).get(target)
+        found = readings_by_charge(items, False, True, True, barred).get(target)
     return found
 
 
 # Carbide C4-, acetylide C2 2- and nitride N3- stand only in binary compounds
-# (CaC2, Al4C3, Li3N, Mg3N2): a carbon compound of three or more elements is
-# never split into them (C2H3NaO2 is sodium acetate, not an acetylide): common practice.
+# (CaC2, Al4C3, Li3N, Mg3N2): a carbon compound of three or more elements is never split
+# into them (C2H3NaO2 is sodium acetate, not an acetylide), nor a hydrocarbon (C2H2 and C6H6
+# are molecules, not H+ and acetylide): common practice.
 _CARBIDE_LIKE = frozenset({"C", "C2", "N"})
 
 
 def bars_carbide(counts: dict[str, Number]) -> bool:
     """True where carbide, acetylide and nitride are not read (a carbon compound
-    of three or more elements)."""
-    return "C" in counts and len(counts) > 2
+    of three or more elements, or a hydrocarbon)."""
+    return "C" in counts and (len(counts) > 2 or set(counts) == {"C", "H"})
 
 
 # Peroxide, superoxide and ozonide stand with the s-block cations (Na2O2, BaO2,
@@ -225,6 +221,21 @@ _OXO_PARTNERS = frozenset("H Li Na K Rb Cs Fr Be Mg Ca Sr Ba Ra Zn Cd U O".split
 def allows_oxo_ions(counts: dict[str, Number]) -> bool:
     """True where peroxide, superoxide and ozonide may be read (every element a partner of theirs)."""
     return all(s in _OXO_PARTNERS for s in counts)
+
+
+def barred_anions(counts: dict[str, Number]) -> frozenset[str]:
+    """The anions not read from a formula's items written out, by the partner rules above."""
+    barred: set[str] = set()
+    if not allows_oxo_ions(counts):
+        barred |= {"O2", "O3"}
+    if bars_carbide(counts):
+        barred |= _CARBIDE_LIKE
+    return frozenset(barred)
+
+
+def _group_barred(barred: frozenset[str]) -> frozenset[str]:
+    """Inside brackets the writer has grouped the ions: only the carbide rule still applies."""
+    return barred & _CARBIDE_LIKE
 
 
 # ---------------------------------------------------------------------------

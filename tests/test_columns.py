@@ -208,13 +208,43 @@ def test_headings_read_by_their_words(heading, role):
         "Particle size",
         "Chem.",  # a name or a formula: not said
         "Supplier",
-        "Location",
-        "CAS / EC No.",  # one part is not a CAS RN
+        "Location code",
+        "CAS / EC No.",  # a CAS RN and an EC number: two roles, neither used
         "Quantity/Unit",
     ],
 )
 def test_headings_that_name_no_role(heading):
     assert heading_role(heading) is None
+
+
+@pytest.mark.parametrize(
+    "heading, role",
+    [  # the columns of safety-data-sheet summaries and stock lists, English and German (common practice)
+        ("EC No.", "ec"),
+        ("EG-Nr.", "ec"),
+        ("EINECS", "ec"),
+        ("UN No.", "un"),
+        ("UN-Nr.", "un"),
+        ("Signal word", "signal_word"),
+        ("Signalwort", "signal_word"),
+        ("Hazard statements", "hazard_statements"),
+        ("H-Sätze", "hazard_statements"),
+        ("Gefahrenhinweise (H-Sätze)", "hazard_statements"),
+        ("P-Statements", "precautionary_statements"),
+        ("Sicherheitshinweise", "precautionary_statements"),
+        ("GHS pictograms", "pictograms"),
+        ("Piktogramme", "pictograms"),
+        ("Storage class", "storage_class"),
+        ("LGK", "storage_class"),
+        ("Location", "location"),
+        ("Lagerort", "location"),
+        ("No. of packs", "count"),
+        ("Anzahl", "count"),
+        ("Pack size", "quantity"),
+    ],
+)
+def test_headings_of_sds_and_store_columns(heading, role):
+    assert heading_role(heading) == role
 
 
 @pytest.mark.parametrize(

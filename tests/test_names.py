@@ -711,8 +711,11 @@ KNOWN_ROUND_TRIP_FAILURES: dict[tuple[str, str], str] = {
 
 def _carbide_not_binary(cation, anion) -> bool:
     """Carbide, acetylide or nitride beside a cation of two or more elements, in a carbon
-    compound: no real compound (carbides and nitrides are binary; common practice)."""
+    compound, or beside H+ (C2H2 is a hydrocarbon): no real compound (carbides and nitrides
+    are binary compounds of a metal; common practice)."""
     elements = set(cation.formula.counts) | set(anion.formula.counts)
+    if anion.text in ("C", "C2") and elements == {"C", "H"}:
+        return True
     return anion.text in ("C", "C2", "N") and "C" in elements and len(elements) > 2
 
 

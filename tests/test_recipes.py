@@ -231,3 +231,55 @@ def test_dilution_worked_examples():
     assert d.c2 == pytest.approx(1.0)
     with pytest.raises(CellchemError, match="exactly three"):
         dilution(c1=1, c2=0.1)
+
+
+# A percent strength of a reagent of the density table converts without a density given.
+# 37 % HCl: 37 g in 100 g of solution; at 1.18-1.19 g/mL (the label figures, common practice;
+# CRC Handbook 1.18, from memory) a litre holds 1180-1190 g, of which 436.6-440.3 g HCl
+# (36.46 g/mol): 11.97-12.08 mol/L, "about 12 M" on preparation-room charts (common practice).
+@pytest.mark.parametrize("unit", ["%", "% w/w", "wt%"])
+def test_37_percent_hydrochloric_acid_without_a_density(unit):
+    v = convert_concentration(37, unit, "mol/L", "HCl")
+    assert 11.97 - 0.03 <= v <= 12.08 + 0.03
+    assert any("density table" in n and "37 % w/w HCl" in n and "from memory" in n for n in v.notes)
+    assert convert_concentration(f"37 {unit}", "", "mol/L", "HCl") == v
+    assert convert_concentration(37, unit, "mol/L", "hydrochloric acid") == v
+
+
+def test_a_plain_percent_is_read_as_w_w_only_for_a_reagent_of_the_table():
+    v = convert_concentration("37%", "mol/L", "mol/L", "HCl")
+    assert any("'%' read as % w/w" in n for n in v.notes)
+    # 96 % H2SO4 at 1.84 g/mL (label figure): 96 x 18.4 / 98.08 = 18.0 mol/L (by hand)
+    assert convert_concentration(96, "%", "mol/L", "H2SO4") == pytest.approx(18.0, abs=0.07)
+    # 25 % NH3 at 0.91 g/mL (label figure): 25 x 9.1 / 17.03 = 13.36 mol/L (by hand)
+    assert convert_concentration(25, "%", "mol/L", "NH3") == pytest.approx(13.36, abs=0.08)
+    # any other solute: '%' stays refused, quoting the unit
+    with pytest.raises(CellchemError) as info:
+        convert_concentration(10, "%", "mol/L", "NaCl")
+    assert str(info.value) == (
+        "unit '%': '%' alone does not say of what; write '% w/v' (g per 100 mL) or '% w/w' (g per 100 g,"
+        " needs the solution's density)"
+    )
+    # ammonia solution written as NH4OH is not read: its strength is % NH3, not % NH4OH
+    with pytest.raises(CellchemError, match="'%' alone does not say of what"):
+        convert_concentration(25, "%", "mol/L", "NH4OH")
+
+
+def test_a_given_density_wins_over_the_table():
+    # 37 % at 1.18 g/mL: 37 x 11.8 / 36.46 = 11.97 mol/L (by hand), whatever the table holds
+    v = convert_concentration(37, "%", "mol/L", "HCl", density=1.18)
+    assert v == pytest.approx(11.975, abs=0.002)
+    assert not any(n.startswith("density ") for n in v.notes)  # no density taken from the table
+
+
+def test_a_strength_the_table_does_not_list_is_refused():
+    with pytest.raises(CellchemError) as info:
+        convert_concentration(33, "%", "mol/L", "HCl")
+    assert str(info.value) == (
+        "concentration 33 (33 % w/w HCl) needs the solution's density: cellchem's density table lists HCl"
+        " at 32, 36, 37 % w/w only (no interpolation); pass density=... (g/mL)"
+    )
+    # per mass to per mass needs no density, table or not
+    assert convert_concentration(37, "%", "mol/kg", "HCl") == pytest.approx(
+        convert_concentration(37, "% w/w", "mol/kg", "HCl")
+    )

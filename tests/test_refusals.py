@@ -375,8 +375,8 @@ _ANIONS = sorted((i for i in catalog() if i.charge < 0 and not i.is_complex), ke
 def test_two_cations_and_an_anion_never_get_an_invented_ratio(a, b, anion):
     """A name of two cations and one anion, without prefixes, is read only as a compound a
     table holds with exactly those ions; otherwise it is refused."""
-    if a.text == b.text:
-        return
+    if a.text == b.text or "H" in (a.text, b.text):
+        return  # 'hydrogen phosphate' names the acid anion HPO4 2- (IUPAC 2005 IR-8.5), not two cations
     name = f"{a.name} {b.name} {anion.name}"
     try:
         reading = read_name(name)

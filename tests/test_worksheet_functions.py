@@ -114,6 +114,23 @@ def test_grams_and_convert():
     assert _refused(run("GRAMS_TO_WEIGH", "NaCl", 0.1, 1, 99))  # a purity over 1 is refused, not guessed
 
 
+def test_sds_functions():
+    # water's EC number 231-791-2 (EC inventory, from memory); the last digit changed fails its check
+    assert run("EC_VALID", "231-791-2") is True and run("EC_VALID", "231-791-3") is False
+    # H225 (flammable liquid 2) carries Danger, H319 (eye irritation 2) Warning: Danger wins; their
+    # pictograms GHS02 and GHS07 (GHS Annex 3 / CLP Annex I, from memory)
+    assert run("SIGNAL_WORD", "H225, H319") == "Danger"
+    assert run("PICTOGRAMS", "H225, H319") == "GHS02, GHS07"
+    assert run("SIGNAL_WORD", "H412") == ""  # chronic aquatic 3: no signal word
+    assert run("SIGNAL_WORD", "H272") == "Danger or Warning"  # oxidising solid 2 or 3
+    assert _refused(run("SIGNAL_WORD", "H999"), "unknown statement code 'H999'")
+    assert run("CHECK_HAZARDS", "H290, H314", "Warning").startswith("error: signal word 'Warning'")
+    assert run("CHECK_HAZARDS", "H290, H314", "Danger", "GHS05") == ""
+    # hydrochloric acid ships as UN1789 (UN Model Regulations, from memory); nitric acid does not
+    assert run("CHECK_UN", "UN1789", "7647-01-0") == ""
+    assert run("CHECK_UN", "UN1789", "7697-37-2").startswith("warning: UN number 'UN1789'")
+
+
 # -- WHY: the message where a platform cannot show it ---------------------------------------------
 
 

@@ -668,6 +668,448 @@ def functions_ods(xlsx: Path, path: Path) -> None:
             z.writestr(info, data)
 
 
+# ---------------------------------------------------------------------------
+# The supplier's SDS summary and the store with locations (cellchem survey)
+# ---------------------------------------------------------------------------
+
+SDS_HEADER = [
+    "Product name",
+    "Formula",
+    "CAS No.",
+    "EC No.",
+    "UN No.",
+    "Signal word",
+    "Hazard statements",
+    "Precautionary statements",
+    "Pictograms",
+]
+# Each line as the SDS gives it (EC numbers, UN numbers and GHS statements as suppliers print them,
+# from memory); the planted inconsistencies are marked, and tests/test_survey.py checks each is found.
+SDS_LINES = [
+    (
+        "Hydrochloric acid 37%",
+        "HCl",
+        "7647-01-0",
+        "231-595-7",
+        "UN1789",
+        "Danger",
+        "H290, H314, H335",
+        "P260, P280, P303+P361+P353, P305+P351+P338",
+        "GHS05, GHS07",
+    ),
+    (
+        "Sulfuric acid 96%",
+        "H2SO4",
+        "7664-93-9",
+        "231-639-5",
+        "UN1830",
+        "Danger",
+        "H290, H314",
+        "P280, P301+P330+P331, P305+P351+P338",
+        "GHS05",
+    ),
+    # planted: the UN number of hydrochloric acid
+    (
+        "Nitric acid 65%",
+        "HNO3",
+        "7697-37-2",
+        "231-714-2",
+        "UN1789",
+        "Danger",
+        "H272, H290, H314",
+        "P210, P280",
+        "GHS03, GHS05",
+    ),
+    # planted: H314 carries Danger
+    (
+        "Sodium hydroxide pellets",
+        "NaOH",
+        "1310-73-2",
+        "215-185-5",
+        "UN1823",
+        "Warning",
+        "H290, H314",
+        "P280, P305+P351+P338",
+        "GHS05",
+    ),
+    # planted: H319 and H336 carry GHS07, which is missing
+    (
+        "Acetone",
+        "C3H6O",
+        "67-64-1",
+        "200-662-2",
+        "UN1090",
+        "Danger",
+        "H225, H319, H336, EUH066",
+        "P210, P233, P305+P351+P338",
+        "GHS02",
+    ),
+    # planted: the EC number's check digit (200-578-6)
+    (
+        "Ethanol absolute",
+        "C2H6O",
+        "64-17-5",
+        "200-578-7",
+        "UN1170",
+        "Danger",
+        "H225, H319",
+        "P210, P233",
+        "GHS02, GHS07",
+    ),
+    ("Sodium chloride", "NaCl", "7647-14-5", "231-598-3", "", "", "", "", ""),
+    (
+        "Potassium permanganate",
+        "KMnO4",
+        "7722-64-7",
+        "231-760-3",
+        "UN1490",
+        "Danger",
+        "H272, H302, H410",
+        "P210, P220, P273",
+        "GHS03, GHS07, GHS09",
+    ),
+    # planted: only Warning statements, yet Danger
+    (
+        "Ammonium chloride",
+        "NH4Cl",
+        "12125-02-9",
+        "235-186-4",
+        "",
+        "Danger",
+        "H302, H319",
+        "P264, P270, P301+P312",
+        "GHS07",
+    ),
+    (
+        "Hydrogen peroxide 30%",
+        "H2O2",
+        "7722-84-1",
+        "231-765-0",
+        "UN2014",
+        "Danger",
+        "H302, H318, H412",
+        "P280, P305+P351+P338+P310",
+        "GHS05, GHS07",
+    ),
+    (
+        "Potassium cyanide",
+        "KCN",
+        "151-50-8",
+        "205-792-3",
+        "UN1680",
+        "Danger",
+        "H290, H300+H310+H330, H372, H410, EUH032",
+        "P260, P264, P273, P280, P301+P310",
+        "GHS05, GHS06, GHS08, GHS09",
+    ),
+    # planted: a combination of a P2xx and a P3xx statement
+    (
+        "Sodium azide",
+        "NaN3",
+        "26628-22-8",
+        "247-852-1",
+        "UN1687",
+        "Danger",
+        "H300, H373, H410, EUH032",
+        "P264, P273+P301",
+        "GHS06, GHS08, GHS09",
+    ),
+    # planted: GHS06, which no statement carries
+    (
+        "Silver nitrate",
+        "AgNO3",
+        "7761-88-8",
+        "231-853-9",
+        "UN1493",
+        "Danger",
+        "H272, H314, H410",
+        "P210, P280",
+        "GHS03, GHS05, GHS06, GHS09",
+    ),
+    (
+        "Toluene",
+        "C7H8",
+        "108-88-3",
+        "203-625-9",
+        "UN1294",
+        "Danger",
+        "H225, H304, H315, H336, H361d, H373",
+        "P210, P301+P310, P331",
+        "GHS02, GHS07, GHS08",
+    ),
+    (
+        "Barium chloride dihydrate",
+        "BaCl2·2H2O",
+        "10326-27-9",
+        "233-788-1",
+        "UN1564",
+        "Danger",
+        "H301, H332",
+        "P264, P301+P310",
+        "GHS06",
+    ),
+    ("Zinc oxide", "ZnO", "1314-13-2", "215-222-5", "UN3077", "Warning", "H410", "P273, P391, P501", "GHS09"),
+    (
+        "Mercury(II) chloride",
+        "HgCl2",
+        "7487-94-7",
+        "231-299-8",
+        "UN1624",
+        "Danger",
+        "H300, H314, H341, H361f, H372, H410",
+        "P260, P264, P280",
+        "GHS05, GHS06, GHS08, GHS09",
+    ),
+    ("Calcium carbonate", "CaCO3", "471-34-1", "207-439-9", "", "", "", "", ""),
+    (
+        "Lead(II) nitrate",
+        "Pb(NO3)2",
+        "10099-74-8",
+        "233-245-9",
+        "UN1469",
+        "Danger",
+        "H272, H302+H332, H318, H360Df, H373, H410",
+        "P201, P210, P273",
+        "GHS03, GHS05, GHS07, GHS08, GHS09",
+    ),
+    ("Sodium thiosulfate pentahydrate", "Na2S2O3·5H2O", "10102-17-7", "231-867-5", "", "", "", "", ""),
+    # planted: a letter l where the digit 1 belongs
+    ("Magnesium sulfate heptahydrate", "MgSO4·7H2O", "10034-99-8", "231-298-2", "", "", "H3l9", "", ""),
+    # planted: a code the GHS does not have
+    ("D(+)-Glucose", "C6H12O6", "50-99-7", "200-075-1", "", "Warning", "H999", "", "GHS07"),
+    # planted: an EC number with a digit missing
+    (
+        "Calcium chloride dihydrate",
+        "CaCl2·2H2O",
+        "10035-04-8",
+        "233-140",
+        "",
+        "Warning",
+        "H319",
+        "P305+P351+P338",
+        "GHS07",
+    ),
+]
+
+STORE_HEADER = ["Location", "Item", "Formula", "CAS No.", "Pack size", "No. of packs", "Hazard statements"]
+# (location, item, formula, CAS RN, pack size, packs, H statements); the planted questions are marked
+STORE_SHEETS = {
+    "Chemistry store": [
+        ("Acids cabinet C2", "Hydrochloric acid 37%", "HCl", "7647-01-0", "2.5 L", 2, "H290, H314, H335"),
+        ("Acids cabinet C2", "Sulfuric acid 96%", "H2SO4", "7664-93-9", "2.5 L", 1, "H290, H314"),
+        ("Acids cabinet C2", "Nitric acid 65%", "HNO3", "7697-37-2", "1 L", 1, "H272, H290, H314"),
+        # planted: a cyanide among the acids
+        (
+            "Acids cabinet C2",
+            "Potassium cyanide",
+            "KCN",
+            "151-50-8",
+            "100 g",
+            1,
+            "H290, H300+H310+H330, H372, H410",
+        ),
+        (
+            "Oxidisers cabinet C3",
+            "Potassium permanganate",
+            "KMnO4",
+            "7722-64-7",
+            "500 g",
+            2,
+            "H272, H302, H410",
+        ),
+        (
+            "Oxidisers cabinet C3",
+            "Potassium dichromate",
+            "K2Cr2O7",
+            "7778-50-9",
+            "250 g",
+            1,
+            "H272, H301, H312, H314, H317, H330, H334, H340, H350, H360FD, H372, H410",
+        ),
+        # planted: a flammable liquid among the oxidisers
+        ("Oxidisers cabinet C3", "Ethanol absolute", "C2H6O", "64-17-5", "1 L", 2, "H225, H319"),
+        (
+            "Oxidisers cabinet C3",
+            "Lead(II) nitrate",
+            "Pb(NO3)2",
+            "10099-74-8",
+            "500 g",
+            1,
+            "H272, H302+H332, H318, H360Df, H373, H410",
+        ),
+        (
+            "Poisons cabinet C4",
+            "Mercury(II) chloride",
+            "HgCl2",
+            "7487-94-7",
+            "100 g",
+            1,
+            "H300, H314, H341, H361f, H372, H410",
+        ),
+        (
+            "Poisons cabinet C4",
+            "Mercury(II) oxide",
+            "HgO",
+            "21908-53-2",
+            "25 g",
+            2,
+            "H300+H310+H330, H373, H410",
+        ),
+        ("Poisons cabinet C4", "Sodium azide", "NaN3", "26628-22-8", "100 g", 1, "H300, H373, H410, EUH032"),
+        (
+            "Poisons cabinet C4",
+            "Barium chloride dihydrate",
+            "BaCl2·2H2O",
+            "10326-27-9",
+            "500 g",
+            1,
+            "H301, H332",
+        ),
+        ("Store B14 shelf 1", "Sodium chloride", "NaCl", "7647-14-5", "1 kg", 3, ""),
+        # planted: the same substance twice at one location
+        ("Store B14 shelf 1", "Sodium chloride", "NaCl", "7647-14-5", "500 g", 2, ""),
+        (
+            "Store B14 shelf 1",
+            "Copper(II) sulfate pentahydrate",
+            "CuSO4·5H2O",
+            "7758-99-8",
+            "500 g",
+            2,
+            "H302, H315, H319, H410",
+        ),
+        # planted: a pack size with no unit
+        (
+            "Store B14 shelf 1",
+            "Zinc sulfate heptahydrate",
+            "ZnSO4·7H2O",
+            "7446-20-0",
+            "500",
+            1,
+            "H302, H318, H410",
+        ),
+        ("Store B14 shelf 2", "Sodium hydroxide pellets", "NaOH", "1310-73-2", "1 kg", 2, "H290, H314"),
+        # planted: an ammonium salt beside a strong base
+        ("Store B14 shelf 2", "Ammonium chloride", "NH4Cl", "12125-02-9", "500 g", 1, "H302, H319"),
+        ("Store B14 shelf 2", "Silver nitrate", "AgNO3", "7761-88-8", "25 g", 1, "H272, H314, H410"),
+        ("Flammables cabinet F1", "Acetone", "C3H6O", "67-64-1", "2.5 L", 4, "H225, H319, H336"),
+        (
+            "Flammables cabinet F1",
+            "Toluene",
+            "C7H8",
+            "108-88-3",
+            "2.5 L",
+            1,
+            "H225, H304, H315, H336, H361d, H373",
+        ),
+    ],
+    "Prep room": [
+        ("Prep room A cupboard 1", "Hydrochloric acid 2 M", "HCl", "7647-01-0", "1 L", 3, "H290"),
+        # planted: a sulfide beside an acid
+        (
+            "Prep room A cupboard 1",
+            "Sodium sulfide nonahydrate",
+            "Na2S·9H2O",
+            "1313-84-4",
+            "250 g",
+            1,
+            "H290, H301, H314, H400",
+        ),
+        # planted: a water-reactive metal beside an aqueous acid
+        (
+            "Prep room A cupboard 1",
+            "Sodium (metal, under oil)",
+            "Na",
+            "7440-23-5",
+            "25 g",
+            1,
+            "H260, H314, EUH014",
+        ),
+        (
+            "Prep room A cupboard 2",
+            "Lead(II) acetate trihydrate",
+            "Pb(CH3COO)2·3H2O",
+            "6080-56-4",
+            "100 g",
+            1,
+            "H360Df, H373, H410",
+        ),
+        ("Prep room A cupboard 2", "Sodium chloride", "NaCl", "7647-14-5", "500 g", 1, ""),
+        (
+            "Prep room A cupboard 2",
+            "Hydrogen peroxide 30%",
+            "H2O2",
+            "7722-84-1",
+            "1 L",
+            1,
+            "H302, H318, H412",
+        ),
+        (
+            "Prep room A cupboard 2",
+            "Copper(II) sulfate pentahydrate",
+            "CuSO4·5H2O",
+            "7758-99-8",
+            "6 x 100 g",
+            1,
+            "H302, H315, H319, H410",
+        ),
+    ],
+}
+
+
+def sds_workbook(path: Path) -> None:
+    """A supplier's SDS summary: identity, EC and UN numbers, signal word, H and P statements and
+    pictograms, with planted inconsistencies of every kind the checks look for."""
+    from openpyxl import Workbook
+    from openpyxl.styles import Font
+
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "SDS summary"
+    ws.append(
+        ["Quillbrook Reagents - safety data sheet summary for Kestrel Fen College (invented demo data)"]
+    )
+    ws["A1"].font = Font(bold=True, size=14)
+    ws.append([])
+    ws.append(SDS_HEADER)
+    for cell in ws[3]:
+        cell.font = Font(bold=True)
+    for line in SDS_LINES:
+        ws.append([v if v != "" else None for v in line])
+    ws.freeze_panes = "A4"
+    for letter, width in zip("ABCDEFGHI", (34, 14, 12, 11, 9, 10, 44, 44, 30)):
+        ws.column_dimensions[letter].width = width
+    wb.properties.creator = "Quillbrook Reagents (invented)"
+    wb.save(path)
+    _fixed_zip(path)
+
+
+def store_workbook(path: Path) -> None:
+    """The store as the stores team keeps it: one sheet per room, each line with its location, pack
+    size and number of packs, and the H statements copied from the SDS."""
+    from openpyxl import Workbook
+    from openpyxl.styles import Font
+
+    wb = Workbook()
+    first = True
+    for title, lines in STORE_SHEETS.items():
+        ws = wb.active if first else wb.create_sheet()
+        first = False
+        ws.title = title
+        ws.append([f"Kestrel Fen College - {title.lower()} (invented demo data)"])
+        ws["A1"].font = Font(bold=True, size=14)
+        ws.append(STORE_HEADER)
+        for cell in ws[2]:
+            cell.font = Font(bold=True)
+        for line in lines:
+            ws.append([v if v != "" else None for v in line])
+        ws.freeze_panes = "A3"
+        for letter, width in zip("ABCDEFG", (24, 34, 18, 12, 11, 11, 44)):
+            ws.column_dimensions[letter].width = width
+    wb.properties.creator = "Kestrel Fen College stores (invented)"
+    wb.save(path)
+    _fixed_zip(path)
+
+
 def build(target: Path = HERE) -> list[Path]:
     """Write every demo file into ``target``; return their paths."""
     target.mkdir(parents=True, exist_ok=True)
@@ -681,7 +1123,11 @@ def build(target: Path = HERE) -> list[Path]:
     functions_workbook(functions)
     calc = target / "demo-worksheet-functions.ods"
     functions_ods(functions, calc)
-    return [path, inventory, supplier, functions, calc]
+    sds = target / "demo-sds-summary.xlsx"
+    sds_workbook(sds)
+    store = target / "demo-store.xlsx"
+    store_workbook(store)
+    return [path, inventory, supplier, functions, calc, sds, store]
 
 
 if __name__ == "__main__":

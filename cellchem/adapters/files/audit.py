@@ -11,7 +11,7 @@ from dataclasses import dataclass, field
 from itertools import chain
 from pathlib import Path
 
-from ...audit import STANDARD_WEIGHTS, WARNING, Summary, iter_audit
+from ...audit import BLANK, STANDARD_WEIGHTS, WARNING, Summary, iter_audit
 from ...columns import (
     HEADER_SEARCH_ROWS,
     NO_ROLES,
@@ -94,6 +94,9 @@ class Options:
     mass_allowance: float | None = None
     column_options: ColumnOptions | None = None  # --column [SHEET:]... and --header-row [SHEET:]N
     weights: str = STANDARD_WEIGHTS
+    # called with (file, sheet, row number, layout, cells) for each data row that is not blank: the
+    # survey of a whole store reads its lines this way, in the same pass as the audit
+    collect: Callable[[str, str, int, Layout, Sequence[object]], None] | None = None
 
     def layout_options(self) -> ColumnOptions:
         if self.column_options is not None:
@@ -246,6 +249,15 @@ def _audit_table(
     body: Iterator[Sequence[object]] = body_rows()
     if cell_filter is not None:
         body = cell_filter(layout, body)
+    current: list[Sequence[object]] = [()]
+    if options.collect is not None:
+
+        def remembered(rows: Iterator[Sequence[object]]) -> Iterator[Sequence[object]]:
+            for cells in rows:
+                current[0] = cells  # iter_audit reads one row for each result it gives
+                yield cells
+
+        body = remembered(body)
     label = f"{Path(report.file).name} {report.sheet}".strip()
     for result in iter_audit(
         _progress(body, total, label),
@@ -257,6 +269,8 @@ def _audit_table(
         weights=options.weights,
     ):
         report.summary.add(result)
+        if options.collect is not None and result.status != BLANK:
+            options.collect(report.file, report.sheet, result.row, layout, current[0])
         for f in result.findings:
             findings.append(
                 FindingRecord(

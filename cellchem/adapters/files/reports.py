@@ -108,15 +108,29 @@ _WORKBOOK_WIDTHS = (24, 14, 6, 8, 13, 8, 70, 26)
 _WRAPPED_COLUMNS = (1, 7, 8)  # File, Message and Suggestion (1-based)
 
 
-def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_rows: Sequence[tuple]) -> None:
-    """A findings workbook: sheet 'Findings' (a table with a header row, a
-    filter, frozen header, one finding a row with its severity as a word, in
-    the order given) and sheet 'Summary' (label, value rows).
+@dataclass(frozen=True)
+class TableSheet:
+    """One sheet of a report workbook: a table with a header row (``empty`` is
+    shown in ``empty_column`` when there are no rows), its column widths (in
+    characters) and the 1-based columns whose text wraps."""
+
+    title: str
+    headers: Sequence[str]
+    rows: Sequence[Sequence[object]]
+    widths: Sequence[float]
+    wrapped: Sequence[int] = ()
+    empty: str = "nothing found"
+    empty_column: int = 1
+
+
+def write_tables(path: str | Path, sheets: Sequence[TableSheet], summary_rows: Sequence[tuple]) -> None:
+    """A report workbook: one sheet per table (a header row, a filter, frozen
+    header) and a sheet 'Summary' (label, value rows).
 
     Made to be read on screen and on paper in any spreadsheet program: long
     text wraps inside its cell and each row is as high as its wrapped text
     (a program that does not size rows itself shows no text over the row
-    below), and both sheets print on A4 landscape, one page wide, with the
+    below), and every sheet prints on A4 landscape, one page wide, with the
     header row repeated on every page."""
     from openpyxl import Workbook
     from openpyxl.styles import Alignment, Font
@@ -139,29 +153,31 @@ def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_r
         sheet.page_margins.left = sheet.page_margins.right = 0.5
 
     wb = Workbook()
-    ws = wb.active
-    ws.title = "Findings"
-    headers = ("File", "Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion")
-    for c, h in enumerate(headers, 1):
-        _text_cell(ws, 1, c, h).font = Font(bold=True)
-    for i, r in enumerate(records, 2):
-        values = (r.file, r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion)
-        for c, value in enumerate(values, 1):
-            _text_cell(ws, i, c, value).alignment = wrap if c in _WRAPPED_COLUMNS else top
-        lines = max(text_lines(values[c - 1], _WORKBOOK_WIDTHS[c - 1]) for c in _WRAPPED_COLUMNS)
-        ws.row_dimensions[i].height = lines * POINTS_PER_LINE
-    last = max(2, len(records) + 1)
-    if not records:
-        for c in range(1, len(headers) + 1):
-            _text_cell(ws, 2, c, "" if c != 7 else "no findings")
-    ref = f"A1:{get_column_letter(len(headers))}{last}"
-    table = Table(displayName="Findings", ref=ref)
-    table.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
-    ws.add_table(table)
-    ws.freeze_panes = "A2"
-    for c, width in enumerate(_WORKBOOK_WIDTHS, 1):
-        ws.column_dimensions[get_column_letter(c)].width = width
-    for_print(ws)
+    for n, spec in enumerate(sheets):
+        ws = wb.active if n == 0 else wb.create_sheet()
+        ws.title = spec.title
+        for c, h in enumerate(spec.headers, 1):
+            _text_cell(ws, 1, c, h).font = Font(bold=True)
+        for i, values in enumerate(spec.rows, 2):
+            for c, value in enumerate(values, 1):
+                _text_cell(ws, i, c, value).alignment = wrap if c in spec.wrapped else top
+            if spec.wrapped:
+                lines = max(text_lines(values[c - 1], spec.widths[c - 1]) for c in spec.wrapped)
+                ws.row_dimensions[i].height = lines * POINTS_PER_LINE
+        if not spec.rows:
+            for c in range(1, len(spec.headers) + 1):
+                _text_cell(ws, 2, c, spec.empty if c == spec.empty_column else "")
+        last = max(2, len(spec.rows) + 1)
+        table = Table(
+            displayName="".join(w.capitalize() for w in spec.title.split()),
+            ref=f"A1:{get_column_letter(len(spec.headers))}{last}",
+        )
+        table.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
+        ws.add_table(table)
+        ws.freeze_panes = "A2"
+        for c, width in enumerate(spec.widths, 1):
+            ws.column_dimensions[get_column_letter(c)].width = width
+        for_print(ws)
     summary = wb.create_sheet("Summary")
     _text_cell(summary, 1, 1, "Item").font = Font(bold=True)
     _text_cell(summary, 1, 2, "Value").font = Font(bold=True)
@@ -177,3 +193,22 @@ def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_r
     for_print(summary)
 
     write_atomically(Path(path), wb.save)
+
+
+def write_workbook(path: str | Path, records: Sequence[FindingRecord], summary_rows: Sequence[tuple]) -> None:
+    """A findings workbook: sheet 'Findings' (one finding a row with its
+    severity as a word, in the order given) and sheet 'Summary' (label, value
+    rows); laid out as ``write_tables`` lays out every report workbook."""
+    write_tables(path, [findings_sheet(records)], summary_rows)
+
+
+def findings_sheet(records: Sequence[FindingRecord]) -> TableSheet:
+    return TableSheet(
+        "Findings",
+        ("File", "Sheet", "Row", "Column", "Check", "Severity", "Message", "Suggestion"),
+        [(r.file, r.sheet, r.row, r.column, r.check, r.severity, r.message, r.suggestion) for r in records],
+        _WORKBOOK_WIDTHS,
+        _WRAPPED_COLUMNS,
+        "no findings",
+        7,
+    )

@@ -39,6 +39,7 @@ from ... import (
     net_charge,
     oxidation_state,
     salt_formula,
+    sds,
 )
 from ...audit import ERROR, NOTE, WARNING, check_line
 from ...errors import CellchemError
@@ -489,6 +490,120 @@ def _ion_balance(ions=None, concentrations=None, unit=None):
         return [[b.cations, b.anions, b.error_percent, b.acceptable]]
 
     return aggregate(run, ions, concentrations, unit)
+
+
+@_register(
+    "EC_VALID",
+    "TRUE when an EC number (EINECS/ELINCS/NLP) has the standard form and a correct check digit.",
+    [A("ec", "the EC number, e.g. 231-791-2")],
+    "TRUE or FALSE",
+    '=CELLCHEM.EC_VALID("231-791-2") gives TRUE',
+)
+def _ec_valid(ec=None):
+    return cellwise(lambda e: sds.ec_is_valid(text(e, "ec")), [ec])
+
+
+def _readings(words: frozenset[str]) -> str:
+    return " or ".join(sorted(w for w in words if w)) or ""
+
+
+@_register(
+    "SIGNAL_WORD",
+    "The signal word the hazard statements call for (GHS, CLP): Danger, Warning, or empty for none.",
+    [A("hazard_statements", "the H (and EUH) statements, e.g. H290, H314, H335")],
+    "text; 'Danger or Warning' where a statement's category decides and the statements do not say which",
+    '=CELLCHEM.SIGNAL_WORD("H225, H319") gives Danger',
+)
+def _signal_word(hazard_statements=None):
+    def one(h):
+        codes = [c for group in sds.read_statements(text(h, "hazard_statements")) for c in group]
+        words, _reason = sds.expected_signal_word(codes)
+        return _readings(words)
+
+    return cellwise(one, [hazard_statements])
+
+
+@_register(
+    "PICTOGRAMS",
+    "The GHS pictograms the hazard statements call for, after the precedence rules (CLP Article 26).",
+    [A("hazard_statements", "the H (and EUH) statements, e.g. H290, H314, H335")],
+    "text, e.g. GHS05, GHS07; pictograms that may also be shown follow in brackets",
+    '=CELLCHEM.PICTOGRAMS("H290, H314, H335") gives GHS05, GHS07',
+)
+def _pictograms(hazard_statements=None):
+    def one(h):
+        codes = [c for group in sds.read_statements(text(h, "hazard_statements")) for c in group]
+        required, allowed = sds.expected_pictograms(codes)
+        shown = ", ".join(sorted(required))
+        extra = sorted(allowed - required)
+        if extra:
+            shown += (" " if shown else "") + "(may also show " + ", ".join(extra) + ")"
+        return shown
+
+    return cellwise(one, [hazard_statements])
+
+
+def _first_finding(found) -> str:
+    if not found:
+        return ""
+    order = {ERROR: 0, WARNING: 1, NOTE: 2}
+    first = sorted(found, key=lambda f: order[f.severity])[0]
+    return f"{first.severity}: {first.message}"
+
+
+@_register(
+    "CHECK_HAZARDS",
+    "The verdict on an SDS line's hazard cells: empty when statements, signal word and pictograms agree.",
+    [
+        A("hazard_statements", "the H (and EUH) statements"),
+        A("signal_word", "Danger, Warning, or empty", True),
+        A("pictograms", "the pictogram codes, e.g. GHS02, GHS07", True),
+        A("precautionary_statements", "the P statements", True),
+    ],
+    "text (empty when all agree)",
+    '=CELLCHEM.CHECK_HAZARDS("H290, H314","Warning") gives error: signal word ... need Danger ...',
+)
+def _check_hazards(hazard_statements=None, signal_word=None, pictograms=None, precautionary_statements=None):
+    def one(h, w, g, p):
+        def given(v, what):
+            return None if blank(v) else text(v, what)
+
+        return _first_finding(
+            sds.check_hazards(
+                given(h, "hazard_statements"),
+                given(p, "precautionary_statements"),
+                given(w, "signal_word"),
+                given(g, "pictograms"),
+            )
+        )
+
+    return cellwise(
+        one,
+        [hazard_statements, signal_word, pictograms, precautionary_statements],
+        blank_when=lambda v: all(blank(x) for x in v),
+    )
+
+
+@_register(
+    "CHECK_UN",
+    "The audit's verdict on a UN number: its form, and the substance where the UN table lists it.",
+    [
+        A("un", "the UN number, e.g. UN1789 or 1789"),
+        A("cas", "the line's CAS RN", True),
+        A("formula", "the line's formula", True),
+    ],
+    "text (empty when nothing is found)",
+    '=CELLCHEM.CHECK_UN("UN1789","7697-37-2") gives warning: UN number ... is not one the table lists ...',
+)
+def _check_un(un=None, cas=None, formula=None):
+    def one(u, c, f):
+        return _first_finding(
+            sds.check_un(
+                text(u, "un"), None if blank(c) else text(c, "cas"), None if blank(f) else text(f, "formula")
+            )
+        )
+
+    return cellwise(one, [un, cas, formula])
 
 
 def _lookup(function: object) -> SheetFunction:
