@@ -1338,6 +1338,7 @@ def _with_sds(cells: Sequence[object], layout: Layout, done: RowResult) -> RowRe
             cell("precautionary_statements"),
             cell("signal_word"),
             cell("pictograms") if "pictograms" in roles else None,
+            statements_column="hazard_statements" in roles,
         )
     )
     if not found:

@@ -363,8 +363,16 @@ class _RowRoles:
     ambiguous: list[str]
 
 
+# Headings of the amount in one pack; beside one of them, a plain quantity heading ("Qty", "Quantity",
+# "Stock") counts the packs (common practice of stock lists: "Pack size | Qty").
+_PACK_HEADINGS = frozenset(
+    {"pack size", "size", "contents", "net quantity", "packungsgrösse", "gebindegrösse", "gebinde", "inhalt"}
+)
+
+
 def _roles_of(row: Sequence[object]) -> _RowRoles:
     out = _RowRoles({}, [], [])
+    quantities: list[tuple[int, str]] = []
     for i, cell in enumerate(row):
         text = _text(cell)
         if not text or not isinstance(cell, str):
@@ -380,6 +388,8 @@ def _roles_of(row: Sequence[object]) -> _RowRoles:
         role = reading.role
         if role is None:
             continue
+        if role == "quantity":
+            quantities.append((i, text))
         if role in out.roles:
             out.duplicates.append(
                 f"{text!r} in column {column_letter(i)} (the {role} column is"
@@ -387,6 +397,13 @@ def _roles_of(row: Sequence[object]) -> _RowRoles:
             )
         else:
             out.roles[role] = i
+    packs = [(i, t) for i, t in quantities if " ".join(heading_words(t)) in _PACK_HEADINGS]
+    plain = [(i, t) for i, t in quantities if (i, t) not in packs]
+    if packs and plain and "count" not in out.roles:
+        out.roles["quantity"], out.roles["count"] = packs[0][0], plain[0][0]
+        out.duplicates[:] = [
+            d for d in out.duplicates if not any(d.startswith(repr(t)) for _i, t in quantities)
+        ]
     return out
 
 

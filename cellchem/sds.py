@@ -925,16 +925,34 @@ def check_hazards(
     p_text: object = None,
     signal_word: object = None,
     pictograms: object = None,
+    statements_column: bool = False,
 ) -> list[SdsFinding]:
     """Check an SDS summary's hazard cells: the H/EUH and P statements are read
     (unknown or malformed codes are errors naming the token), the signal word is
     checked against the hazard statements, and the pictograms (when given)
-    against the pictograms the statements call for.
+    against the pictograms the statements call for (a pictogram the statements
+    require is an error when missing; one none of them carries, a warning).
 
     Blank cells (None or only spaces) are "not given" and give no finding; a
-    signal word cell of '-' or 'none' says the SDS shows no signal word.
+    signal word cell of '-' or 'none' says the SDS shows no signal word. With
+    ``statements_column`` (the table has a column for the hazard statements), a
+    signal word beside an empty statements cell is a warning: one of the two is
+    wrong or missing.
     """
     findings: list[SdsFinding] = []
+    word_given = not not_given(signal_word) and not (
+        isinstance(signal_word, str) and signal_word.strip().lower().rstrip(".") in _NONE_WORDS
+    )
+    if statements_column and _blank(h_text) and word_given:
+        findings.append(
+            SdsFinding(
+                WARNING,
+                "signal word",
+                f"signal word {_quote(signal_word)} with no hazard statements on the line: the statements are"
+                " missing, or the signal word belongs to another line",
+                "copy the hazard statements from SDS section 2",
+            )
+        )
     hazard_codes: list[str] | None = None
     if not _blank(h_text):
         try:
@@ -1063,7 +1081,7 @@ def _check_pictograms(codes: list[str], h_text: object, pictograms: object) -> l
         why = "; ".join(f"{p} for {', '.join(sources[p])}" for p in missing)
         findings.append(
             SdsFinding(
-                WARNING,
+                ERROR,
                 "pictograms",
                 f"pictograms {_quote(pictograms)} lack {', '.join(missing)} that the hazard statements"
                 f" {_quote(h_text)} call for ({why})",

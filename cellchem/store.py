@@ -209,8 +209,19 @@ def _agree_with_name(f: Formula, name_formula: Formula, name: str) -> bool:
     except CellchemError:
         stated = ""
     if stated == "" or stated is None:
-        return same_substance(f.anhydrous(), name_formula.anhydrous())
+        a, b = f.anhydrous(), name_formula.anhydrous()
+        # a multiple of the salt is the same salt: 3CdSO4·8H2O is cadmium sulfate hydrate
+        return same_substance(a, b) or _reduced(a.counts) == _reduced(b.counts)
     return same_substance(f, name_formula)
+
+
+def _reduced(counts) -> tuple:
+    """Element counts divided by their greatest common divisor (whole counts only)."""
+    values = list(counts.values())
+    if not values or not all(isinstance(v, int) for v in values):
+        return tuple(sorted(counts.items()))
+    g = math.gcd(*values)
+    return tuple(sorted((k, v // g) for k, v in counts.items()))
 
 
 def _agree_with_record(f: Formula, record_formula: str) -> bool:
@@ -266,6 +277,7 @@ def _identify(line: StoreLine) -> Identity:
             record = None
     f: Formula | None = None
     source = ""
+    name_agrees = False  # the name read and fits the formula: two witnesses against the record
     if formula_text:
         try:
             f = parse_formula(formula_text)
@@ -286,6 +298,7 @@ def _identify(line: StoreLine) -> Identity:
                     f"the name {name!r} reads as {named.text()} but the formula cell holds {f.text()};"
                     " correct one of them"
                 )
+            name_agrees = named is not None
     elif name:
         try:
             f = parse_formula(formula_from_name(name))
@@ -309,7 +322,13 @@ def _identify(line: StoreLine) -> Identity:
                 " cellchem reads; give the formula"
             )
         return _unidentified("the line has no formula, name or CAS RN; give the formula")
-    if record is not None and source != "CAS RN" and not _agree_with_record(f, record.formula):
+    # open data is one witness: a record outvoted by the name and the formula does not refuse the line
+    if (
+        record is not None
+        and source != "CAS RN"
+        and not name_agrees
+        and not _agree_with_record(f, record.formula)
+    ):
         return _unidentified(
             f"CAS RN {cas} is {record.name} ({record.formula}) in cellchem's substance table, but the line's"
             f" formula is {f.text()}; correct one of them"

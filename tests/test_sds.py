@@ -617,15 +617,23 @@ def test_pictogram_precedence(codes, required, allowed):
     assert expected_pictograms(codes) == (frozenset(required), frozenset(allowed))
 
 
-def test_missing_pictogram_is_a_warning():
+def test_missing_pictogram_is_an_error():
+    # H314 (skin corrosion 1) carries GHS05 in every category (GHS Annex 3, from memory)
     (finding,) = check_hazards("H225, H314", pictograms="GHS02")
-    assert (finding.severity, finding.field) == ("warning", "pictograms")
+    assert (finding.severity, finding.field) == ("error", "pictograms")
     assert "GHS05" in finding.message and "H314" in finding.message
 
 
 def test_extra_pictogram_is_a_warning():
     (finding,) = check_hazards("H225", pictograms="GHS02, GHS06")
     assert finding.severity == "warning" and "GHS06" in finding.message and "none" in finding.message
+
+
+def test_signal_word_without_statements_where_the_table_has_their_column():
+    (finding,) = check_hazards(None, signal_word="Warning", statements_column=True)
+    assert (finding.severity, finding.field) == ("warning", "signal word")
+    assert check_hazards(None, signal_word="Warning") == []  # no statements column: nothing to compare
+    assert check_hazards(None, signal_word="-", statements_column=True) == []
 
 
 def test_optional_pictogram_shown_is_fine():

@@ -32,7 +32,7 @@ def sds_findings():
 PLANTED_SDS = {
     ("E6", "un", "warning"),  # nitric acid with hydrochloric acid's UN1789 (UN2031: UN Model Regulations)
     ("F7", "signal-word", "error"),  # H314 (skin corrosion 1) carries Danger, the line says Warning
-    ("I8", "pictograms", "warning"),  # H319 and H336 carry GHS07, the line shows GHS02 only
+    ("I8", "pictograms", "error"),  # H319 and H336 carry GHS07, the line shows GHS02 only
     ("D9", "ec", "error"),  # ethanol is 200-578-6; 200-578-7 fails the check digit
     ("F12", "signal-word", "error"),  # H302 and H319 carry Warning, the line says Danger
     ("H15", "precautionary-statements", "error"),  # P273+P301 joins prevention and response
