@@ -742,12 +742,21 @@ def school_mass(f: Formula) -> float:
     return total
 
 
+# What a CAS RN cell says when the line has none: a mixture, a dash, "n/a" (common practice of SDS
+# summaries and stock lists, English and German)
+_NO_CAS = re.compile(
+    r"^(?:[-–—/]+|n\.?\s?a\.?|n/a|none|keine?|mixture|gemisch|mischung|various|verschiedene|proprietary"
+    r"|trade secret|not (?:applicable|available|assigned))\.?$",
+    re.IGNORECASE,
+)
+
+
 def _cas_cell(cas: object) -> tuple[str, list[Finding]]:
     """The CAS RN in its standard form ('' when there is none or it is malformed) and the
     findings of its format: an error for a bad format or check digit (no number is
     suggested here: only a number the substance table holds can be), a note for another
     way of writing it."""
-    if _blank(cas):
+    if _blank(cas) or _NO_CAS.match(str(cas).strip()):
         return "", []
     raw = cas if not isinstance(cas, float) or not cas.is_integer() else int(cas)
     try:

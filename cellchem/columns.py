@@ -366,7 +366,17 @@ class _RowRoles:
 # Headings of the amount in one pack; beside one of them, a plain quantity heading ("Qty", "Quantity",
 # "Stock") counts the packs (common practice of stock lists: "Pack size | Qty").
 _PACK_HEADINGS = frozenset(
-    {"pack size", "size", "contents", "net quantity", "packungsgrösse", "gebindegrösse", "gebinde", "inhalt"}
+    {
+        "pack size",
+        "pack",
+        "size",
+        "contents",
+        "net quantity",
+        "packungsgrösse",
+        "gebindegrösse",
+        "gebinde",
+        "inhalt",
+    }
 )
 
 

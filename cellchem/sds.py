@@ -482,6 +482,19 @@ _NONE_WORDS = frozenset(
 )
 
 
+# A statements cell with no code that says the substance carries none: "Not a hazardous substance
+# according to Regulation (EC) No 1272/2008", "not classified", "kein gefährlicher Stoff" (common practice)
+_NO_HAZARD = re.compile(
+    r"\b(?:not (?:a )?(?:hazardous|dangerous|classified)|no hazards?|non[- ]hazardous"
+    r"|kein(?:e|er)? gef[äa]hrlich|nicht (?:als )?(?:gef[äa]hrlich|eingestuft))",
+    re.IGNORECASE,
+)
+
+
+def _says_none(text: str) -> bool:
+    return text.strip().lower().rstrip(".") in _NONE_WORDS or bool(_NO_HAZARD.search(text))
+
+
 def _tokens(text: str) -> list[tuple[str, int, bool]]:
     """The cell's tokens: (token, 0-based start, whether a statement break precedes it)."""
     out: list[tuple[str, int, bool]] = []
@@ -611,7 +624,7 @@ def _read_groups(text: str) -> tuple[tuple[tuple[str, int], ...], ...]:
         )
     if current:
         groups.append(current)
-    if not groups and text.strip() and text.strip().lower().rstrip(".") not in _NONE_WORDS:
+    if not groups and text.strip() and not _says_none(text):
         raise CellchemError(
             f"no statement code found in '{cell}' (expected codes such as 'H225, H319' or"
             " 'P210'; write '-' or 'none' where the SDS gives none)",

@@ -52,8 +52,15 @@ class Dispute:
     firm: bool = True  # False: the cell outvoted rests on a witness that grounds no error (a synonym)
 
 
+# Ammonia solution is sold as NH3 and registered as "ammonium hydroxide" (CAS 1336-21-6, NH4OH):
+# the two formulas name one product (common practice)
+_AMMONIA_SOLUTION = frozenset({"H3N1", "H5N1O1"})
+
+
 def _agree(a: Formula, b: Formula) -> bool:
     if composition_key(a) == composition_key(b):
+        return True
+    if {composition_key(a), composition_key(b)} <= _AMMONIA_SOLUTION:
         return True
     try:
         return same_substance(a, b)

@@ -160,3 +160,71 @@ def test_an_empty_survey_still_says_what_an_empty_list_means(tmp_path, capsys):
 def test_the_survey_refuses_a_part_it_cannot_read(capsys):
     assert main(["survey", str(STORE), "--concern", "Hg,Xq"]) == 2
     assert "--concern" in capsys.readouterr().err
+
+
+# -- classes found by measuring on stock lists and SDS summaries written for it --------------------
+
+
+@pytest.mark.parametrize(
+    "headings, quantity, count",
+    [  # a pack-size heading beside a plain quantity heading: the latter counts the packs (common practice)
+        (["Location", "Item", "Pack size", "Qty"], 2, 3),
+        (["Room/Cabinet", "Item", "Size", "No. of units"], 2, 3),
+        (["Storage location", "Description", "Pack", "Stock (units)"], 2, 3),
+        (["Lagerort", "Bezeichnung", "Gebinde", "Menge"], 2, 3),
+    ],
+)
+def test_the_pack_size_and_the_number_of_packs(headings, quantity, count):
+    from cellchem.columns import find_layout
+
+    layout = find_layout([headings, ["Shelf 1", "Sodium chloride", "500 g", 2]])
+    assert (layout.roles["quantity"], layout.roles["count"]) == (quantity, count)
+
+
+def test_a_lone_quantity_column_stays_the_amount():
+    from cellchem.columns import find_layout
+
+    layout = find_layout([["Item", "Formula", "Qty", "Unit"], ["Sodium chloride", "NaCl", 500, "g"]])
+    assert layout.roles["quantity"] == 2 and "count" not in layout.roles
+
+
+def test_cells_that_say_there_is_nothing_are_not_findings():
+    from cellchem import audit_rows
+
+    audit = audit_rows(
+        [
+            ["Product", "Formula", "CAS No.", "EC No.", "UN No", "Signal word", "H-phrases"],
+            ["Buffer solution pH 7.00", None, "mixture", "n/a", "not regulated", "-", "not classified"],
+            [
+                "Glycine",
+                "C2H5NO2",
+                "56-40-6",
+                "200-272-2",
+                "n/a",
+                "-",
+                "Not a hazardous substance according to Regulation (EC) No 1272/2008",
+            ],
+            # ammonia solution is registered as ammonium hydroxide, CAS 1336-21-6 (common practice)
+            [
+                "Ammonia solution 25%",
+                None,
+                "1336-21-6",
+                "215-647-6",
+                "UN 2672",
+                "Danger",
+                "H290, H314, H335, H400",
+            ],
+        ]
+    )
+    assert [(row, f.check, f.severity) for row, _col, f in audit.findings if f.severity != "note"] == []
+
+
+def test_a_multiple_of_a_salt_is_the_same_hydrate_and_a_record_is_one_witness():
+    from cellchem.store import StoreLine, concern
+
+    # cadmium sulfate hydrate is 3CdSO4·8H2O (CRC, from memory); the substance table's record for
+    # CAS 7790-84-3 gives another ratio, outvoted by the name and the formula
+    line = StoreLine("s", "", 2, "Cadmium sulfate hydrate", "3CdSO4·8H2O", "7790-84-3", "250 g")
+    (cd,) = concern([line], ["Cd"])
+    # 3 x 112.41 / (3 x 208.47 + 8 x 18.015) = 0.4382 (CIAAW weights, by hand)
+    assert cd.mass_g == pytest.approx(250 * 3 * 112.41 / (3 * 208.47 + 8 * 18.015), rel=1e-3)
